@@ -1,0 +1,112 @@
+//! Command-line front end: clap definitions (stage 1), checked inputs (stage 2), dispatch and rendering.
+//!
+//! Invariant: every failure becomes one `error: …` line on stderr and exit code 2; no panics on user input.
+
+mod args;
+mod render;
+
+use args::{ConfigArgs, Inputs};
+use clap::{Parser, Subcommand};
+use sheafwright::geometry::Geometry;
+use std::path::PathBuf;
+
+/// Exact geometry and line-bundle data for heterotic models on Calabi-Yau complete intersections.
+#[derive(Parser, Debug)]
+#[command(name = "sheafwright", version, about, long_about = None)]
+struct Cli {
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Subcommand, Debug)]
+enum Command {
+    /// Everything sheafwright knows about one model file, for a person.
+    Report {
+        /// The model file (TOML).
+        model: PathBuf,
+        /// Print one JSON object instead of tables.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Intersection numbers, c2(TX), Euler number and index data of the Calabi-Yau.
+    Geometry {
+        #[command(flatten)]
+        config: ConfigArgs,
+        /// Print one JSON object instead of tables.
+        #[arg(long)]
+        json: bool,
+    },
+}
+
+/// An error for the user: the message is printed after `error: `.
+#[derive(Debug)]
+pub struct UserError(pub String);
+
+impl<E: std::fmt::Display> From<E> for UserError {
+    fn from(e: E) -> Self {
+        UserError(e.to_string())
+    }
+}
+
+/// Run the CLI and return the process exit code.
+pub fn run() -> i32 {
+    let cli = match Cli::try_parse() {
+        Ok(c) => c,
+        Err(e) => {
+            let code = if e.use_stderr() { 2 } else { 0 };
+            let _ = e.print();
+            return code;
+        }
+    };
+    match dispatch(cli) {
+        Ok(text) => {
+            use std::io::Write;
+            let mut out = std::io::stdout().lock();
+            if out.write_all(text.as_bytes()).is_err() {
+                return 2;
+            }
+            0
+        }
+        Err(UserError(msg)) => {
+            eprintln!("error: {msg}");
+            2
+        }
+    }
+}
+
+fn dispatch(cli: Cli) -> Result<String, UserError> {
+    match cli.command {
+        Command::Geometry { config, json } => {
+            let inputs = Inputs::from_args(&config)?;
+            let geometry = Geometry::new(inputs.config());
+            let summary = geometry.summary();
+            if json {
+                Ok(render::json_line(&summary)?)
+            } else {
+                Ok(render::geometry_table(&summary))
+            }
+        }
+        Command::Report { model, json } => {
+            let inputs = Inputs::from_model_path(&model)?;
+            let geometry = Geometry::new(inputs.config());
+            let summary = geometry.summary();
+            if json {
+                let report = serde_json::json!({
+                    "schema": "sheafwright.report/1",
+                    "model": inputs.name(),
+                    "geometry": summary,
+                });
+                Ok(render::json_line(&report)?)
+            } else {
+                let mut out = String::new();
+                out.push_str(&format!("Model: {}\n", inputs.name()));
+                if let Some(notes) = inputs.model().and_then(|m| m.notes.as_deref()) {
+                    out.push_str(&format!("Notes: {}\n", notes.trim()));
+                }
+                out.push_str("\n== Geometry ==\n");
+                out.push_str(&render::geometry_table(&summary));
+                Ok(out)
+            }
+        }
+    }
+}

@@ -1,0 +1,414 @@
+//! The model file: a TOML document in sheafwright's own schema (documented in `docs/model-file.md`).
+//!
+//! Loading goes through a shadow struct ([`RawModel`], plain serde data) and a validating conversion into
+//! [`Model`], so a `Model` always holds a valid Calabi-Yau [`Configuration`], polynomials of the declared
+//! multidegrees (all equations or none), line bundles of the right length and rank, and a Kähler point with
+//! positive entries. Errors name the offending field.
+
+use crate::geometry::{ConfigError, Configuration};
+use crate::poly::{PolyError, Polynomial, VariableLayout};
+use num_bigint::BigInt;
+use num_rational::BigRational;
+use num_traits::{Signed, Zero};
+use serde::Deserialize;
+use std::path::Path;
+use thiserror::Error;
+
+/// Largest model file read (bytes); larger files are refused before parsing.
+pub const MAX_MODEL_FILE_BYTES: u64 = 4 << 20;
+/// Largest absolute value of a line-bundle entry.
+pub const MAX_BUNDLE_ENTRY: i64 = 1000;
+
+/// Why a model file was refused.
+#[derive(Debug, Error)]
+#[non_exhaustive]
+pub enum ModelError {
+    #[error("cannot read {path}: {source}")]
+    Read {
+        path: String,
+        source: std::io::Error,
+    },
+    #[error("{path} is {size} bytes; model files are limited to {MAX_MODEL_FILE_BYTES} bytes")]
+    TooBig { path: String, size: u64 },
+    #[error("malformed TOML: {0}")]
+    Toml(String),
+    #[error("field `{field}`: {source}")]
+    Config {
+        field: &'static str,
+        source: ConfigError,
+    },
+    #[error("field `equations[{index}].polynomial`: {source}")]
+    Polynomial { index: usize, source: PolyError },
+    #[error("field `{field}`: {message}")]
+    Invalid { field: String, message: String },
+}
+
+/// The TOML shadow of a model file: plain data, no invariants. Unknown keys are refused so typos are caught.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawModel {
+    pub name: Option<String>,
+    pub notes: Option<String>,
+    pub ambient: RawAmbient,
+    pub equations: Vec<RawEquation>,
+    pub bundle: Option<RawBundle>,
+    pub kahler: Option<RawKahler>,
+    pub cohomology: Option<RawCohomology>,
+    /// Reserved for freely acting symmetries; accepted and kept verbatim, not yet interpreted.
+    pub symmetry: Option<toml::Value>,
+}
+
+/// `[ambient]`.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawAmbient {
+    pub dims: Vec<i64>,
+}
+
+/// One `[[equations]]` entry.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawEquation {
+    pub multidegree: Vec<i64>,
+    pub polynomial: Option<String>,
+}
+
+/// `[bundle]`.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawBundle {
+    pub line_bundles: Vec<Vec<i64>>,
+}
+
+/// `[kahler]`: a point `t` of the Kähler cone, entries as integers or strings such as `"3/2"`.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawKahler {
+    pub point: Vec<toml::Value>,
+}
+
+/// `[cohomology]`: how line-bundle cohomology is computed for this model.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawCohomology {
+    /// `"generic"` or `"given"`.
+    pub mode: Option<String>,
+    pub seed: Option<u64>,
+}
+
+/// How the defining polynomials are chosen for cohomology computations.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, serde::Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum PolynomialMode {
+    /// Random integer coefficients from a seed: the answer for a generic member of the family.
+    Generic,
+    /// The polynomials written in the model file, exactly.
+    Given,
+}
+
+/// A validated model (see the module invariant).
+#[derive(Clone, Debug)]
+pub struct Model {
+    pub name: String,
+    pub notes: Option<String>,
+    config: Configuration,
+    polynomials: Option<Vec<Polynomial>>,
+    line_bundles: Option<Vec<Vec<i64>>>,
+    kahler_point: Option<Vec<BigRational>>,
+    mode: Option<PolynomialMode>,
+    seed: Option<u64>,
+    symmetry: Option<toml::Value>,
+}
+
+impl Model {
+    /// Read and validate a model file.
+    pub fn load(path: &Path) -> Result<Model, ModelError> {
+        let shown = path.display().to_string();
+        let meta = std::fs::metadata(path).map_err(|source| ModelError::Read {
+            path: shown.clone(),
+            source,
+        })?;
+        if meta.len() > MAX_MODEL_FILE_BYTES {
+            return Err(ModelError::TooBig {
+                path: shown,
+                size: meta.len(),
+            });
+        }
+        let text = std::fs::read_to_string(path).map_err(|source| ModelError::Read {
+            path: shown.clone(),
+            source,
+        })?;
+        let default_name = path
+            .file_stem()
+            .map(|s| s.to_string_lossy().into_owned())
+            .unwrap_or_default();
+        Model::from_toml_str(&text, &default_name)
+    }
+
+    /// Parse and validate model text; `default_name` is used when the file has no `name`.
+    pub fn from_toml_str(text: &str, default_name: &str) -> Result<Model, ModelError> {
+        let raw: RawModel = toml::from_str(text)
+            .map_err(|e| ModelError::Toml(e.to_string().lines().collect::<Vec<_>>().join(" ")))?;
+        Model::try_from_raw(raw, default_name)
+    }
+
+    /// The validating conversion from the shadow struct.
+    pub fn try_from_raw(raw: RawModel, default_name: &str) -> Result<Model, ModelError> {
+        let degrees: Vec<Vec<i64>> = raw
+            .equations
+            .iter()
+            .map(|e| e.multidegree.clone())
+            .collect();
+        let config = Configuration::new(&raw.ambient.dims, &degrees).map_err(|source| {
+            ModelError::Config {
+                field: if matches!(
+                    source,
+                    ConfigError::NoFactors
+                        | ConfigError::NonPositiveDimension { .. }
+                        | ConfigError::TooLarge { .. }
+                ) {
+                    "ambient.dims"
+                } else {
+                    "equations"
+                },
+                source,
+            }
+        })?;
+        let layout = VariableLayout::new(config.dims());
+        let given: Vec<Option<&String>> = raw
+            .equations
+            .iter()
+            .map(|e| e.polynomial.as_ref())
+            .collect();
+        let polynomials = if given.iter().all(Option::is_none) {
+            None
+        } else if let Some(missing) = given.iter().position(Option::is_none) {
+            return Err(ModelError::Invalid {
+                field: format!("equations[{missing}].polynomial"),
+                message: "either every equation gives a polynomial or none does".into(),
+            });
+        } else {
+            let mut out = Vec::new();
+            for (index, (text, q)) in given.iter().zip(config.equations()).enumerate() {
+                let p = Polynomial::parse(text.expect("checked above"), &layout)
+                    .and_then(|p| p.check_equation(&layout, q).map(|_| p))
+                    .map_err(|source| ModelError::Polynomial { index, source })?;
+                out.push(p);
+            }
+            Some(out)
+        };
+        let m = config.num_factors();
+        let line_bundles = match raw.bundle {
+            None => None,
+            Some(b) => {
+                if !(3..=5).contains(&b.line_bundles.len()) {
+                    return Err(ModelError::Invalid {
+                        field: "bundle.line_bundles".into(),
+                        message: format!(
+                            "rank {} is not supported: a line-bundle sum needs rank 5 (SU(5)), 4 (SO(10)) or 3 (E6)",
+                            b.line_bundles.len()
+                        ),
+                    });
+                }
+                for (a, k) in b.line_bundles.iter().enumerate() {
+                    check_bundle(k, m).map_err(|message| ModelError::Invalid {
+                        field: format!("bundle.line_bundles[{a}]"),
+                        message,
+                    })?;
+                }
+                Some(b.line_bundles)
+            }
+        };
+        let kahler_point = match raw.kahler {
+            None => None,
+            Some(k) => {
+                if k.point.len() != m {
+                    return Err(ModelError::Invalid {
+                        field: "kahler.point".into(),
+                        message: format!(
+                            "has {} entries but the ambient space has {m} factors",
+                            k.point.len()
+                        ),
+                    });
+                }
+                let mut out = Vec::with_capacity(m);
+                for (i, v) in k.point.iter().enumerate() {
+                    let q = parse_rational_value(v).map_err(|message| ModelError::Invalid {
+                        field: format!("kahler.point[{i}]"),
+                        message,
+                    })?;
+                    if !q.is_positive() {
+                        return Err(ModelError::Invalid {
+                            field: format!("kahler.point[{i}]"),
+                            message: format!("{q} is not positive: Kähler parameters must be > 0"),
+                        });
+                    }
+                    out.push(q);
+                }
+                Some(out)
+            }
+        };
+        let (mode, seed) = match raw.cohomology {
+            None => (None, None),
+            Some(c) => {
+                let mode = match c.mode.as_deref() {
+                    None => None,
+                    Some("generic") => Some(PolynomialMode::Generic),
+                    Some("given") => {
+                        if polynomials.is_none() {
+                            return Err(ModelError::Invalid {
+                                field: "cohomology.mode".into(),
+                                message: "mode \"given\" needs a polynomial in every equation"
+                                    .into(),
+                            });
+                        }
+                        Some(PolynomialMode::Given)
+                    }
+                    Some(other) => {
+                        return Err(ModelError::Invalid {
+                            field: "cohomology.mode".into(),
+                            message: format!(
+                                "unknown mode {other:?}; use \"generic\" or \"given\""
+                            ),
+                        })
+                    }
+                };
+                (mode, c.seed)
+            }
+        };
+        Ok(Model {
+            name: raw.name.unwrap_or_else(|| default_name.to_string()),
+            notes: raw.notes,
+            config,
+            polynomials,
+            line_bundles,
+            kahler_point,
+            mode,
+            seed,
+            symmetry: raw.symmetry,
+        })
+    }
+
+    /// The validated configuration.
+    pub fn config(&self) -> &Configuration {
+        &self.config
+    }
+    /// The explicit polynomials, when the file gives them (one per equation).
+    pub fn polynomials(&self) -> Option<&[Polynomial]> {
+        self.polynomials.as_deref()
+    }
+    /// The line bundles of the bundle sum, when given.
+    pub fn line_bundles(&self) -> Option<&[Vec<i64>]> {
+        self.line_bundles.as_deref()
+    }
+    /// The Kähler point, when given.
+    pub fn kahler_point(&self) -> Option<&[BigRational]> {
+        self.kahler_point.as_deref()
+    }
+    /// The polynomial mode: the file's choice, else `Given` when polynomials are present, else `Generic`.
+    pub fn mode(&self) -> PolynomialMode {
+        self.mode.unwrap_or(if self.polynomials.is_some() {
+            PolynomialMode::Given
+        } else {
+            PolynomialMode::Generic
+        })
+    }
+    /// The seed for generic coefficients, when the file fixes one.
+    pub fn seed(&self) -> Option<u64> {
+        self.seed
+    }
+    /// The reserved symmetry section, verbatim.
+    pub fn symmetry(&self) -> Option<&toml::Value> {
+        self.symmetry.as_ref()
+    }
+}
+
+/// Check one line bundle's entries: length `m`, each of absolute value at most [`MAX_BUNDLE_ENTRY`].
+pub fn check_bundle(k: &[i64], m: usize) -> Result<(), String> {
+    if k.len() != m {
+        return Err(format!(
+            "has {} entries but the ambient space has {m} factors",
+            k.len()
+        ));
+    }
+    if let Some(bad) = k.iter().find(|v| v.abs() > MAX_BUNDLE_ENTRY) {
+        return Err(format!(
+            "entry {bad} is out of range (|entry| <= {MAX_BUNDLE_ENTRY})"
+        ));
+    }
+    Ok(())
+}
+
+/// Parse a rational from a TOML integer or a string like `"3/2"`.
+pub fn parse_rational_value(v: &toml::Value) -> Result<BigRational, String> {
+    match v {
+        toml::Value::Integer(i) => Ok(BigRational::from_integer(BigInt::from(*i))),
+        toml::Value::String(s) => parse_rational(s),
+        other => Err(format!(
+            "expected an integer or a string like \"3/2\", found {}",
+            other.type_str()
+        )),
+    }
+}
+
+/// Parse `"p"` or `"p/q"` (integers, optional sign) as an exact rational.
+pub fn parse_rational(s: &str) -> Result<BigRational, String> {
+    let s = s.trim();
+    let (num, den) = match s.split_once('/') {
+        Some((a, b)) => (a.trim(), b.trim()),
+        None => (s, "1"),
+    };
+    let n: BigInt = num
+        .parse()
+        .map_err(|_| format!("{s:?} is not a rational number like 3/2"))?;
+    let d: BigInt = den
+        .parse()
+        .map_err(|_| format!("{s:?} is not a rational number like 3/2"))?;
+    if d.is_zero() {
+        return Err(format!("{s:?} has a zero denominator"));
+    }
+    Ok(BigRational::new(n, d))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    const GOOD: &str = r#"
+name = "t"
+[ambient]
+dims = [1, 1, 1, 1]
+[[equations]]
+multidegree = [2, 2, 2, 2]
+[bundle]
+line_bundles = [[1,0,0,-1],[0,1,-1,0],[-1,-1,1,1]]
+[kahler]
+point = [1, "3/2", 2, 1]
+"#;
+
+    #[test]
+    fn loads_a_good_model() {
+        let m = Model::from_toml_str(GOOD, "x").unwrap();
+        assert_eq!(m.config().dims(), &[1, 1, 1, 1]);
+        assert_eq!(m.line_bundles().unwrap().len(), 3);
+        assert_eq!(m.mode(), PolynomialMode::Generic);
+    }
+
+    #[test]
+    fn names_the_bad_field() {
+        let bad = GOOD.replace("[1,0,0,-1]", "[1,0,0]");
+        let e = Model::from_toml_str(&bad, "x").unwrap_err().to_string();
+        assert!(e.contains("bundle.line_bundles[0]"), "{e}");
+        let bad = GOOD.replace("\"3/2\"", "\"-3/2\"");
+        let e = Model::from_toml_str(&bad, "x").unwrap_err().to_string();
+        assert!(e.contains("kahler.point[1]"), "{e}");
+        let bad = GOOD.replace("dims = [1, 1, 1, 1]", "dimz = [1]");
+        assert!(matches!(
+            Model::from_toml_str(&bad, "x"),
+            Err(ModelError::Toml(_))
+        ));
+        let bad = GOOD.replace("[2, 2, 2, 2]", "[2, 2, 2, 1]");
+        let e = Model::from_toml_str(&bad, "x").unwrap_err().to_string();
+        assert!(e.contains("not Calabi-Yau"), "{e}");
+    }
+}

@@ -1,0 +1,9 @@
+//! sheafwright: exact geometry, line-bundle cohomology and spectra for heterotic line-bundle models on
+//! Calabi-Yau complete intersections in products of projective spaces.
+//!
+//! Data flows one way: model file ([`io`]) → [`geometry::Configuration`] → [`geometry::Geometry`] →
+//! cohomology → spectrum. The library never prints; the `sheafwright` binary parses, calls and renders.
+
+pub mod geometry;
+pub mod io;
+pub mod poly;
