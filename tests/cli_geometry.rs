@@ -1,0 +1,118 @@
+//! End-to-end tests of the `geometry` and `report` commands: they run the built binary.
+
+use std::process::Command;
+
+fn sheafwright(args: &[&str]) -> (i32, String, String) {
+    let out = Command::new(env!("CARGO_BIN_EXE_sheafwright"))
+        .args(args)
+        .current_dir(env!("CARGO_MANIFEST_DIR"))
+        .output()
+        .expect("binary runs");
+    (
+        out.status.code().unwrap_or(-1),
+        String::from_utf8_lossy(&out.stdout).into_owned(),
+        String::from_utf8_lossy(&out.stderr).into_owned(),
+    )
+}
+
+fn json(args: &[&str]) -> serde_json::Value {
+    let (code, out, err) = sheafwright(args);
+    assert_eq!(code, 0, "stderr: {err}");
+    serde_json::from_str(&out).expect("one JSON object")
+}
+
+#[test]
+fn geometry_json_has_the_documented_keys() {
+    // Published values: tetra-quadric χ = -128, c2·J = 24, d_rst = 2 for distinct r,s,t ([CDLS88]; d, c2 from memory).
+    let v = json(&["geometry", "--ambient", "1,1,1,1", "--equations", "2,2,2,2", "--json"]);
+    assert_eq!(v["dimension"], 3);
+    assert_eq!(v["calabi_yau"], true);
+    assert_eq!(v["euler"], -128);
+    assert_eq!(v["c2"], serde_json::json!([24, 24, 24, 24]));
+    assert_eq!(v["triple"][0][1][2], 2);
+    assert_eq!(v["triple"][0][0][1], 0);
+    assert_eq!(v["triple"].as_array().unwrap().len(), 4);
+}
+
+#[test]
+fn codimension_two_inline_equations() {
+    // P5 with two cubics: χ = -144, d = 9, c2·J = 54 ([CDLS88], [Hub92]).
+    let v = json(&["geometry", "--ambient", "5", "--equations", "3;3", "--json"]);
+    assert_eq!(v["euler"], -144);
+    assert_eq!(v["triple"], serde_json::json!([[[9]]]));
+    assert_eq!(v["c2"], serde_json::json!([54]));
+}
+
+#[test]
+fn model_file_and_inline_agree() {
+    let a = json(&["geometry", "catalogs-demo/bicubic-b.toml", "--json"]);
+    let b = json(&["geometry", "--ambient", "2,2", "--equations", "3,3", "--json"]);
+    assert_eq!(a, b);
+    assert_eq!(a["euler"], -162);
+}
+
+#[test]
+fn report_runs_on_every_demo_model() {
+    for entry in std::fs::read_dir(concat!(env!("CARGO_MANIFEST_DIR"), "/catalogs-demo")).unwrap() {
+        let path = entry.unwrap().path();
+        if path.extension().is_some_and(|e| e == "toml") {
+            let (code, out, err) = sheafwright(&["report", path.to_str().unwrap()]);
+            assert_eq!(code, 0, "{}: {err}", path.display());
+            assert!(out.contains("Euler number"), "{out}");
+            let v = json(&["report", path.to_str().unwrap(), "--json"]);
+            assert_eq!(v["geometry"]["calabi_yau"], true);
+        }
+    }
+}
+
+fn assert_refused(args: &[&str], needle: &str) {
+    let (code, out, err) = sheafwright(args);
+    assert_eq!(code, 2, "args {args:?}: stdout {out} stderr {err}");
+    assert!(err.starts_with("error:") || err.contains("error"), "{err}");
+    assert!(err.to_lowercase().contains(&needle.to_lowercase()), "expected {needle:?} in {err:?}");
+    assert!(!err.contains("panicked"), "{err}");
+    assert_eq!(err.trim().lines().count(), 1, "one-line message expected: {err}");
+}
+
+#[test]
+fn bad_input_is_refused_cleanly() {
+    assert_refused(&["geometry", "--ambient", "4", "--equations", "4"], "not Calabi-Yau");
+    assert_refused(&["geometry", "--ambient", "1,1,1,1", "--equations", "2,2,2"], "3 degree entries");
+    assert_refused(&["geometry", "--ambient", "1,1", "--equations", "3,-1;-1,3"], "negative degree");
+    assert_refused(&["geometry", "--ambient", "0,4", "--equations", "1,5"], "dimension 0");
+    assert_refused(&["geometry", "--ambient", "-2", "--equations", "1"], "dimension -2");
+    assert_refused(&["geometry", "--ambient", "4", "--equations", "five"], "not an integer");
+    assert_refused(&["geometry", "--ambient", "1,x", "--equations", "2"], "not an integer");
+    assert_refused(&["geometry", "--ambient", "1000000", "--equations", "1000001"], "too large");
+    assert_refused(
+        &["geometry", "--ambient", "1,1,1,1,1,1,1,1,1,1,1,1,1,1,1,1,1,1,1,1", "--equations", "2,2,2,2,2,2,2,2,2,2,2,2,2,2,2,2,2,2,2,2"],
+        "too large",
+    );
+    assert_refused(&["geometry", "--ambient", "4"], "--ambient needs --equations");
+    assert_refused(&["geometry"], "no configuration");
+    assert_refused(&["geometry", "no-such-file.toml"], "cannot read");
+}
+
+#[test]
+fn bad_model_files_are_refused_cleanly() {
+    let dir = std::env::temp_dir().join(format!("sheafwright-cli-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let cases: &[(&str, &str)] = &[
+        ("malformed.toml", "[ambient\ndims = [1]", "malformed TOML"),
+        ("unknown.toml", "[ambient]\ndims=[4]\nfoo=1\n[[equations]]\nmultidegree=[5]", "malformed TOML"),
+        ("notcy.toml", "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[6]", "not Calabi-Yau"),
+        ("lengths.toml", "[ambient]\ndims=[1,1,1,1]\n[[equations]]\nmultidegree=[2,2,2,2]\n[bundle]\nline_bundles=[[1,0],[0,1],[-1,-1]]", "bundle.line_bundles[0]"),
+        ("rank.toml", "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\n[bundle]\nline_bundles=[[1],[-1]]", "rank 2"),
+        ("poly.toml", "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\npolynomial=\"x1_0^5 + * x1_1\"", "cannot parse polynomial"),
+        ("degree.toml", "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\npolynomial=\"x1_0^4*x1_1 + x1_2^4\"", "multidegree"),
+    ]
+    .iter()
+    .map(|(a, b, _)| (*a, *b))
+    .collect::<Vec<_>>();
+    let needles = ["malformed TOML", "malformed TOML", "not Calabi-Yau", "bundle.line_bundles[0]", "rank 2", "cannot parse polynomial", "multidegree"];
+    for ((name, text), needle) in cases.iter().zip(needles) {
+        let path = dir.join(name);
+        std::fs::write(&path, text).unwrap();
+        assert_refused(&["report", path.to_str().unwrap()], needle);
+    }
+}
