@@ -24,7 +24,14 @@ fn json(args: &[&str]) -> serde_json::Value {
 #[test]
 fn geometry_json_has_the_documented_keys() {
     // Published values: tetra-quadric χ = -128, c2·J = 24, d_rst = 2 for distinct r,s,t ([CDLS88]; d, c2 from memory).
-    let v = json(&["geometry", "--ambient", "1,1,1,1", "--equations", "2,2,2,2", "--json"]);
+    let v = json(&[
+        "geometry",
+        "--ambient",
+        "1,1,1,1",
+        "--equations",
+        "2,2,2,2",
+        "--json",
+    ]);
     assert_eq!(v["dimension"], 3);
     assert_eq!(v["calabi_yau"], true);
     assert_eq!(v["euler"], -128);
@@ -46,7 +53,14 @@ fn codimension_two_inline_equations() {
 #[test]
 fn model_file_and_inline_agree() {
     let a = json(&["geometry", "catalogs-demo/bicubic-b.toml", "--json"]);
-    let b = json(&["geometry", "--ambient", "2,2", "--equations", "3,3", "--json"]);
+    let b = json(&[
+        "geometry",
+        "--ambient",
+        "2,2",
+        "--equations",
+        "3,3",
+        "--json",
+    ]);
     assert_eq!(a, b);
     assert_eq!(a["euler"], -162);
 }
@@ -69,26 +83,66 @@ fn assert_refused(args: &[&str], needle: &str) {
     let (code, out, err) = sheafwright(args);
     assert_eq!(code, 2, "args {args:?}: stdout {out} stderr {err}");
     assert!(err.starts_with("error:") || err.contains("error"), "{err}");
-    assert!(err.to_lowercase().contains(&needle.to_lowercase()), "expected {needle:?} in {err:?}");
+    assert!(
+        err.to_lowercase().contains(&needle.to_lowercase()),
+        "expected {needle:?} in {err:?}"
+    );
     assert!(!err.contains("panicked"), "{err}");
-    assert_eq!(err.trim().lines().count(), 1, "one-line message expected: {err}");
+    assert_eq!(
+        err.trim().lines().count(),
+        1,
+        "one-line message expected: {err}"
+    );
 }
 
 #[test]
 fn bad_input_is_refused_cleanly() {
-    assert_refused(&["geometry", "--ambient", "4", "--equations", "4"], "not Calabi-Yau");
-    assert_refused(&["geometry", "--ambient", "1,1,1,1", "--equations", "2,2,2"], "3 degree entries");
-    assert_refused(&["geometry", "--ambient", "1,1", "--equations", "3,-1;-1,3"], "negative degree");
-    assert_refused(&["geometry", "--ambient", "0,4", "--equations", "1,5"], "dimension 0");
-    assert_refused(&["geometry", "--ambient", "-2", "--equations", "1"], "dimension -2");
-    assert_refused(&["geometry", "--ambient", "4", "--equations", "five"], "not an integer");
-    assert_refused(&["geometry", "--ambient", "1,x", "--equations", "2"], "not an integer");
-    assert_refused(&["geometry", "--ambient", "1000000", "--equations", "1000001"], "too large");
     assert_refused(
-        &["geometry", "--ambient", "1,1,1,1,1,1,1,1,1,1,1,1,1,1,1,1,1,1,1,1", "--equations", "2,2,2,2,2,2,2,2,2,2,2,2,2,2,2,2,2,2,2,2"],
+        &["geometry", "--ambient", "4", "--equations", "4"],
+        "not Calabi-Yau",
+    );
+    assert_refused(
+        &["geometry", "--ambient", "1,1,1,1", "--equations", "2,2,2"],
+        "3 degree entries",
+    );
+    assert_refused(
+        &["geometry", "--ambient", "1,1", "--equations", "3,-1;-1,3"],
+        "negative degree",
+    );
+    assert_refused(
+        &["geometry", "--ambient", "0,4", "--equations", "1,5"],
+        "dimension 0",
+    );
+    assert_refused(
+        &["geometry", "--ambient", "-2", "--equations", "1"],
+        "dimension -2",
+    );
+    assert_refused(
+        &["geometry", "--ambient", "4", "--equations", "five"],
+        "not an integer",
+    );
+    assert_refused(
+        &["geometry", "--ambient", "1,x", "--equations", "2"],
+        "not an integer",
+    );
+    assert_refused(
+        &["geometry", "--ambient", "1000000", "--equations", "1000001"],
         "too large",
     );
-    assert_refused(&["geometry", "--ambient", "4"], "--ambient needs --equations");
+    assert_refused(
+        &[
+            "geometry",
+            "--ambient",
+            "1,1,1,1,1,1,1,1,1,1,1,1,1,1,1,1,1,1,1,1",
+            "--equations",
+            "2,2,2,2,2,2,2,2,2,2,2,2,2,2,2,2,2,2,2,2",
+        ],
+        "too large",
+    );
+    assert_refused(
+        &["geometry", "--ambient", "4"],
+        "--ambient needs --equations",
+    );
     assert_refused(&["geometry"], "no configuration");
     assert_refused(&["geometry", "no-such-file.toml"], "cannot read");
 }
@@ -109,7 +163,15 @@ fn bad_model_files_are_refused_cleanly() {
     .iter()
     .map(|(a, b, _)| (*a, *b))
     .collect::<Vec<_>>();
-    let needles = ["malformed TOML", "malformed TOML", "not Calabi-Yau", "bundle.line_bundles[0]", "rank 2", "cannot parse polynomial", "multidegree"];
+    let needles = [
+        "malformed TOML",
+        "malformed TOML",
+        "not Calabi-Yau",
+        "bundle.line_bundles[0]",
+        "rank 2",
+        "cannot parse polynomial",
+        "multidegree",
+    ];
     for ((name, text), needle) in cases.iter().zip(needles) {
         let path = dir.join(name);
         std::fs::write(&path, text).unwrap();

@@ -6,9 +6,12 @@ use sheafwright::geometry::{Configuration, Geometry};
 
 /// Random Calabi-Yau configurations: dims in 1..=3 (2 to 4 factors), each row n_i+1 split among K columns.
 fn cy_config() -> impl Strategy<Value = Configuration> {
-    (prop::collection::vec(1i64..=3, 1..=4), 1usize..=4, any::<u64>()).prop_filter_map(
-        "valid CY configuration",
-        |(dims, k, seed)| {
+    (
+        prop::collection::vec(1i64..=3, 1..=4),
+        1usize..=4,
+        any::<u64>(),
+    )
+        .prop_filter_map("valid CY configuration", |(dims, k, seed)| {
             let mut state = seed | 1;
             let mut next = move || {
                 state ^= state << 13;
@@ -24,8 +27,7 @@ fn cy_config() -> impl Strategy<Value = Configuration> {
                 }
             }
             Configuration::new(&dims, &eqs).ok()
-        },
-    )
+        })
 }
 
 fn threefold() -> impl Strategy<Value = Configuration> {

@@ -22,11 +22,51 @@ struct Row {
 }
 
 const ROWS: &[Row] = &[
-    Row { ambient: &[4], equations: &[&[5]], euler: -200, c2: &[50], triple: &[(0, 0, 0, 5)], hodge: (1, 101), source: "[CDLS88], [Hub92]" },
-    Row { ambient: &[5], equations: &[&[3], &[3]], euler: -144, c2: &[54], triple: &[(0, 0, 0, 9)], hodge: (1, 73), source: "[CDLS88], [Hub92]" },
-    Row { ambient: &[5], equations: &[&[2], &[4]], euler: -176, c2: &[56], triple: &[(0, 0, 0, 8)], hodge: (1, 89), source: "[CDLS88], [Hub92]" },
-    Row { ambient: &[6], equations: &[&[2], &[2], &[3]], euler: -144, c2: &[60], triple: &[(0, 0, 0, 12)], hodge: (1, 73), source: "[CDLS88], [Hub92]" },
-    Row { ambient: &[7], equations: &[&[2], &[2], &[2], &[2]], euler: -128, c2: &[64], triple: &[(0, 0, 0, 16)], hodge: (1, 65), source: "[CDLS88], [Hub92]" },
+    Row {
+        ambient: &[4],
+        equations: &[&[5]],
+        euler: -200,
+        c2: &[50],
+        triple: &[(0, 0, 0, 5)],
+        hodge: (1, 101),
+        source: "[CDLS88], [Hub92]",
+    },
+    Row {
+        ambient: &[5],
+        equations: &[&[3], &[3]],
+        euler: -144,
+        c2: &[54],
+        triple: &[(0, 0, 0, 9)],
+        hodge: (1, 73),
+        source: "[CDLS88], [Hub92]",
+    },
+    Row {
+        ambient: &[5],
+        equations: &[&[2], &[4]],
+        euler: -176,
+        c2: &[56],
+        triple: &[(0, 0, 0, 8)],
+        hodge: (1, 89),
+        source: "[CDLS88], [Hub92]",
+    },
+    Row {
+        ambient: &[6],
+        equations: &[&[2], &[2], &[3]],
+        euler: -144,
+        c2: &[60],
+        triple: &[(0, 0, 0, 12)],
+        hodge: (1, 73),
+        source: "[CDLS88], [Hub92]",
+    },
+    Row {
+        ambient: &[7],
+        equations: &[&[2], &[2], &[2], &[2]],
+        euler: -128,
+        c2: &[64],
+        triple: &[(0, 0, 0, 16)],
+        hodge: (1, 65),
+        source: "[CDLS88], [Hub92]",
+    },
     Row {
         ambient: &[1, 1, 1, 1],
         equations: &[&[2, 2, 2, 2]],
@@ -36,8 +76,24 @@ const ROWS: &[Row] = &[
         hodge: (4, 68),
         source: "[CDLS88] (Euler number); intersection numbers and c2 from memory",
     },
-    Row { ambient: &[2, 2], equations: &[&[3, 3]], euler: -162, c2: &[36, 36], triple: &[(0, 0, 1, 3), (0, 1, 1, 3)], hodge: (2, 83), source: "[CDLS88]; d and c2 from memory" },
-    Row { ambient: &[1, 3], equations: &[&[2, 4]], euler: -168, c2: &[24, 44], triple: &[(0, 1, 1, 4), (1, 1, 1, 2)], hodge: (2, 86), source: "[CDLS88]; d and c2 from memory" },
+    Row {
+        ambient: &[2, 2],
+        equations: &[&[3, 3]],
+        euler: -162,
+        c2: &[36, 36],
+        triple: &[(0, 0, 1, 3), (0, 1, 1, 3)],
+        hodge: (2, 83),
+        source: "[CDLS88]; d and c2 from memory",
+    },
+    Row {
+        ambient: &[1, 3],
+        equations: &[&[2, 4]],
+        euler: -168,
+        c2: &[24, 44],
+        triple: &[(0, 1, 1, 4), (1, 1, 1, 2)],
+        hodge: (2, 86),
+        source: "[CDLS88]; d and c2 from memory",
+    },
 ];
 
 fn geometry(row: &Row) -> Geometry {
@@ -50,8 +106,19 @@ fn geometry(row: &Row) -> Geometry {
 fn euler_numbers_match_published_values() {
     for row in ROWS {
         let g = geometry(row);
-        assert_eq!(g.summary().euler, row.euler, "{:?} ({})", row.ambient, row.source);
-        assert_eq!(row.euler, 2 * (row.hodge.0 - row.hodge.1), "hodge data of {:?}", row.ambient);
+        assert_eq!(
+            g.summary().euler,
+            row.euler,
+            "{:?} ({})",
+            row.ambient,
+            row.source
+        );
+        assert_eq!(
+            row.euler,
+            2 * (row.hodge.0 - row.hodge.1),
+            "hodge data of {:?}",
+            row.ambient
+        );
     }
 }
 
@@ -59,7 +126,13 @@ fn euler_numbers_match_published_values() {
 fn second_chern_classes_match_published_values() {
     for row in ROWS {
         let g = geometry(row);
-        assert_eq!(g.c2_dot_j().unwrap(), row.c2, "{:?} ({})", row.ambient, row.source);
+        assert_eq!(
+            g.c2_dot_j().unwrap(),
+            row.c2,
+            "{:?} ({})",
+            row.ambient,
+            row.source
+        );
     }
 }
 
@@ -79,7 +152,11 @@ fn triple_intersections_match_published_values() {
                         .find(|(a, b, c, _)| [*a, *b, *c] == key)
                         .map(|x| x.3)
                         .unwrap_or(0);
-                    assert_eq!(d[r][s][t], want, "d_{r}{s}{t} of {:?} ({})", row.ambient, row.source);
+                    assert_eq!(
+                        d[r][s][t], want,
+                        "d_{r}{s}{t} of {:?} ({})",
+                        row.ambient, row.source
+                    );
                 }
             }
         }

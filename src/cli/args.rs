@@ -2,8 +2,10 @@
 
 use super::UserError;
 use clap::Args;
+use sheafwright::cohomology::{CohomologyEngine, DEFAULT_SEED, PolynomialChoice};
 use sheafwright::geometry::Configuration;
 use sheafwright::io::model::Model;
+use sheafwright::io::model::PolynomialMode;
 use std::path::{Path, PathBuf};
 
 /// Where the configuration comes from: a model file, or inline `--ambient` and `--equations`.
@@ -105,4 +107,81 @@ pub fn parse_equations(text: &str) -> Result<Vec<Vec<i64>>, UserError> {
     text.split(';')
         .map(|e| parse_int_list(e, "--equations"))
         .collect()
+}
+
+/// How the defining polynomials are chosen (`--mode`, `--seed`).
+#[derive(Args, Debug, Clone)]
+pub struct PolyArgs {
+    /// "generic" (random integer coefficients from --seed) or "given" (the model file's polynomials).
+    /// Default: the model file's choice, else generic.
+    #[arg(long)]
+    pub mode: Option<String>,
+    /// Seed of the generic coefficients (default: the model file's, else 20261202).
+    #[arg(long)]
+    pub seed: Option<u64>,
+}
+
+impl PolyArgs {
+    /// Build the cohomology engine for these inputs.
+    pub fn engine(&self, inputs: &Inputs) -> Result<CohomologyEngine, UserError> {
+        let model_mode = inputs
+            .model()
+            .map(|m| m.mode())
+            .unwrap_or(PolynomialMode::Generic);
+        let mode = match self.mode.as_deref() {
+            None => model_mode,
+            Some("generic") => PolynomialMode::Generic,
+            Some("given") => PolynomialMode::Given,
+            Some(other) => {
+                return Err(UserError(format!(
+                    "--mode: unknown mode {other:?}; use generic or given"
+                )));
+            }
+        };
+        let choice = match mode {
+            PolynomialMode::Generic => PolynomialChoice::Generic {
+                seed: self
+                    .seed
+                    .or_else(|| inputs.model().and_then(|m| m.seed()))
+                    .unwrap_or(DEFAULT_SEED),
+            },
+            PolynomialMode::Given => {
+                let polys = inputs
+                    .model()
+                    .and_then(|m| m.polynomials())
+                    .ok_or_else(|| {
+                        UserError(
+                            "--mode given needs a model file whose equations all give a polynomial"
+                                .into(),
+                        )
+                    })?;
+                PolynomialChoice::Given(polys.to_vec())
+            }
+        };
+        Ok(CohomologyEngine::new(inputs.config(), choice)?)
+    }
+}
+
+/// Parse one line bundle and check its length against the number of ambient factors.
+pub fn parse_bundle(text: &str, m: usize, flag: &str) -> Result<Vec<i64>, UserError> {
+    let k = parse_int_list(text, flag)?;
+    sheafwright::io::model::check_bundle(&k, m)
+        .map_err(|e| UserError(format!("{flag} {text}: {e}")))?;
+    Ok(k)
+}
+
+/// Parse a box `LO..HI` (inclusive), e.g. `-3..3`.
+pub fn parse_box(text: &str) -> Result<(i64, i64), UserError> {
+    let bad = || UserError(format!("--box: {text:?} is not a range like -3..3"));
+    let (a, b) = text.split_once("..").ok_or_else(bad)?;
+    let lo: i64 = a.trim().parse().map_err(|_| bad())?;
+    let hi: i64 = b
+        .trim()
+        .trim_start_matches('=')
+        .parse()
+        .map_err(|_| bad())?;
+    if lo > hi {
+        return Err(UserError(format!("--box: empty range {lo}..{hi}")));
+    }
+    Ok((lo, hi))
 }

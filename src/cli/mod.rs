@@ -3,6 +3,7 @@
 //! Invariant: every failure becomes one `error: …` line on stderr and exit code 2; no panics on user input.
 
 mod args;
+mod box_scan;
 mod render;
 
 use args::{ConfigArgs, Inputs};
@@ -25,6 +26,28 @@ enum Command {
         /// The model file (TOML).
         model: PathBuf,
         /// Print one JSON object instead of tables.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Line-bundle cohomology h^q(X, O_X(k)) for one bundle (--bundle) or every bundle in a box (--box).
+    Cohomology {
+        #[command(flatten)]
+        config: ConfigArgs,
+        #[command(flatten)]
+        poly: args::PolyArgs,
+        /// One line bundle, comma separated, e.g. -1,2,0,1.
+        #[arg(long, allow_hyphen_values = true, conflicts_with = "box_range")]
+        bundle: Option<String>,
+        /// Every bundle with all entries in LO..HI, e.g. -3..3 (JSON Lines with --json).
+        #[arg(long = "box", value_name = "LO..HI", allow_hyphen_values = true)]
+        box_range: Option<String>,
+        /// Include a basis of each cohomology group with its type and lifted Čech–Koszul representative.
+        #[arg(long)]
+        representatives: bool,
+        /// Worker threads for --box (default: all cores); results never depend on it.
+        #[arg(long)]
+        threads: Option<usize>,
+        /// Print JSON (one object, or one object per line for --box).
         #[arg(long)]
         json: bool,
     },
@@ -84,6 +107,44 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                 Ok(render::json_line(&summary)?)
             } else {
                 Ok(render::geometry_table(&summary))
+            }
+        }
+        Command::Cohomology {
+            config,
+            poly,
+            bundle,
+            box_range,
+            representatives,
+            threads,
+            json,
+        } => {
+            let inputs = Inputs::from_args(&config)?;
+            let engine = poly.engine(&inputs)?;
+            match (bundle, box_range) {
+                (Some(b), None) => {
+                    let k = args::parse_bundle(&b, inputs.config().num_factors(), "--bundle")?;
+                    let result = engine.cohomology(&k)?;
+                    let reps = if representatives {
+                        Some(engine.representatives(&k)?)
+                    } else {
+                        None
+                    };
+                    if json {
+                        let mut v = serde_json::to_value(&*result)?;
+                        v["configuration"] = inputs.config().label().into();
+                        if let Some(r) = reps {
+                            v["representatives"] = serde_json::to_value(r)?;
+                        }
+                        Ok(render::json_line(&v)?)
+                    } else {
+                        Ok(render::cohomology_single(&result, reps.as_deref()))
+                    }
+                }
+                (None, Some(range)) => {
+                    let (lo, hi) = args::parse_box(&range)?;
+                    box_scan::run(&engine, inputs.config(), lo, hi, threads, json)
+                }
+                _ => Err(UserError("give --bundle K or --box LO..HI".into())),
             }
         }
         Command::Report { model, json } => {

@@ -83,3 +83,114 @@ pub fn geometry_table(g: &GeometrySummary) -> String {
     }
     out
 }
+
+/// One bundle's cohomology as text.
+pub fn cohomology_single(
+    r: &sheafwright::cohomology::LineBundleCohomology,
+    reps: Option<&[sheafwright::cohomology::ClassRepresentative]>,
+) -> String {
+    let mut out = String::new();
+    let _ = writeln!(out, "  bundle      O_X({})", join(&r.bundle, ","));
+    let _ = writeln!(out, "  h^q         {}", join(&r.h, " "));
+    let _ = writeln!(out, "  index       {}", r.index);
+    let _ = writeln!(
+        out,
+        "  method      {} ({} polynomials{})",
+        r.method.kind,
+        r.method.polynomials,
+        r.method
+            .seed
+            .map(|s| format!(", seed {s}"))
+            .unwrap_or_default()
+    );
+    if let Some(f) = &r.method.field {
+        let primes = if r.method.primes.is_empty() {
+            String::new()
+        } else {
+            format!(", p = {}", join(&r.method.primes, ", "))
+        };
+        let _ = writeln!(out, "  field       {f}{primes}");
+    }
+    let _ = writeln!(out, "  certified   {}", r.method.certification);
+    if r.method.higher_differentials {
+        let _ = writeln!(
+            out,
+            "  note        higher differentials d_r (r >= 2) were computed"
+        );
+    }
+    let _ = writeln!(
+        out,
+        "  E_1 page (Koszul set S, p = |S|, q, ambient bundle, dim):"
+    );
+    for g in &r.e1 {
+        let _ = writeln!(
+            out,
+            "    S={{{}}} p={} q={} O_A({}) dim {}",
+            join(&g.koszul, ","),
+            g.p,
+            g.q,
+            join(&g.ambient_bundle, ","),
+            g.dim
+        );
+    }
+    if let Some(reps) = reps {
+        let _ = writeln!(out, "  representatives (one per basis class):");
+        for (i, c) in reps.iter().enumerate() {
+            let lead: Vec<String> = c
+                .bott_terms
+                .iter()
+                .take(4)
+                .map(|t| {
+                    let mono: Vec<String> = t
+                        .monomial
+                        .iter()
+                        .map(|f| format!("({})", join(f, ",")))
+                        .collect();
+                    format!(
+                        "{}*x^{} e{{{}}}",
+                        t.coefficient,
+                        mono.join(""),
+                        join(&t.koszul, ",")
+                    )
+                })
+                .collect();
+            let more = if c.bott_terms.len() > 4 {
+                format!(" + {} more", c.bott_terms.len() - 4)
+            } else {
+                String::new()
+            };
+            let _ = writeln!(
+                out,
+                "    #{} H^{} type {}: {}{}  (lift: {} Čech–Koszul terms{})",
+                i + 1,
+                c.degree,
+                c.class_type,
+                lead.join(" + "),
+                more,
+                c.lift.len(),
+                if c.lift_truncated { ", truncated" } else { "" }
+            );
+        }
+    }
+    out
+}
+
+/// Header of the --box table.
+pub fn cohomology_box_header(config: &sheafwright::geometry::Configuration) -> String {
+    format!(
+        "# {}: bundle | h^0 .. h^{} | index | method",
+        config.label(),
+        config.dimension()
+    )
+}
+
+/// One --box table row.
+pub fn cohomology_row(r: &sheafwright::cohomology::LineBundleCohomology) -> String {
+    format!(
+        "{:<20} {:<24} {:>8}  {}\n",
+        join(&r.bundle, ","),
+        join(&r.h, " "),
+        r.index,
+        r.method.kind
+    )
+}

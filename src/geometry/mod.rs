@@ -12,7 +12,7 @@
 
 pub mod chow;
 
-use chow::{series_exp, series_inverse_one_plus, series_todd, ChowClass, ChowRing};
+use chow::{ChowClass, ChowRing, series_exp, series_inverse_one_plus, series_todd};
 use num_bigint::BigInt;
 use num_rational::BigRational;
 use num_traits::{One, ToPrimitive, Zero};
@@ -36,9 +36,7 @@ pub enum ConfigError {
     NoFactors,
     #[error("ambient factor {factor} has dimension {dim}: every factor must be P^n with n >= 1")]
     NonPositiveDimension { factor: usize, dim: i64 },
-    #[error(
-        "at least one equation is needed (a product of projective spaces is never Calabi-Yau)"
-    )]
+    #[error("at least one equation is needed (a product of projective spaces is never Calabi-Yau)")]
     NoEquations,
     #[error(
         "equation {equation} has {got} degree entries but the ambient space has {expected} factors"
@@ -56,13 +54,17 @@ pub enum ConfigError {
     },
     #[error("equation {equation} has multidegree zero (a constant is not an equation)")]
     ZeroEquation { equation: usize },
-    #[error("dimension of X is {dim} (= sum of ambient dimensions {ambient} - {equations} equations); it must be at least 1")]
+    #[error(
+        "dimension of X is {dim} (= sum of ambient dimensions {ambient} - {equations} equations); it must be at least 1"
+    )]
     NonPositiveVariety {
         dim: i64,
         ambient: usize,
         equations: usize,
     },
-    #[error("not Calabi-Yau: in factor {factor} (P^{n}) the equation degrees sum to {sum}, but c1 = 0 needs {needed}")]
+    #[error(
+        "not Calabi-Yau: in factor {factor} (P^{n}) the equation degrees sum to {sum}, but c1 = 0 needs {needed}"
+    )]
     NotCalabiYau {
         factor: usize,
         n: usize,

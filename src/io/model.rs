@@ -270,7 +270,7 @@ impl Model {
                             message: format!(
                                 "unknown mode {other:?}; use \"generic\" or \"given\""
                             ),
-                        })
+                        });
                     }
                 };
                 (mode, c.seed)

@@ -41,13 +41,17 @@ pub enum PolyError {
         coord: usize,
         n: usize,
     },
-    #[error("variable x{factor}_{coord}: there is no ambient factor {factor} (factors are numbered 1..={m})")]
+    #[error(
+        "variable x{factor}_{coord}: there is no ambient factor {factor} (factors are numbered 1..={m})"
+    )]
     NoSuchFactor {
         factor: usize,
         coord: usize,
         m: usize,
     },
-    #[error("term {term} has multidegree {got:?} but the equation is declared with multidegree {expected:?}")]
+    #[error(
+        "term {term} has multidegree {got:?} but the equation is declared with multidegree {expected:?}"
+    )]
     WrongDegree {
         term: String,
         got: Vec<u32>,
@@ -210,7 +214,7 @@ impl Polynomial {
         let parts: Vec<String> = e
             .iter()
             .enumerate()
-            .filter(|(_, &p)| p > 0)
+            .filter(|(_, p)| **p > 0)
             .map(|(v, &p)| {
                 if p == 1 {
                     layout.var_name(v)
@@ -387,7 +391,7 @@ impl<'a> Parser<'a> {
                 }
                 _ if first => {}
                 Some(c) => {
-                    return self.err(format!("expected '+' or '-' between terms, found '{c}'"))
+                    return self.err(format!("expected '+' or '-' between terms, found '{c}'"));
                 }
                 None => break,
             }

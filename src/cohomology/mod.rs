@@ -1,0 +1,562 @@
+//! Exact cohomology `h^q(X, O_X(k))` of line bundles on complete intersections, with provenance and lifted
+//! Čech–Koszul representatives (MATH.md §2–§3).
+//!
+//! A [`CohomologyEngine`] is bound to one configuration and one choice of defining polynomials
+//! ([`PolynomialChoice`]): *generic* (integer coefficients drawn from a reported seed; ranks over two or more
+//! large primes that must agree) or *given* (the user's polynomials; ranks exactly over Q). It memoises results by
+//! line bundle, so its cache key is (configuration, polynomial choice, line bundle).
+//!
+//! Invariants of every [`LineBundleCohomology`]: `h.len() = dim X + 1`; `Σ (−1)^q h^q` equals the HRR index
+//! (the Euler characteristic of the `E_1` page, independent of the maps); hypercohomology outside degrees
+//! `0..=dim X` is zero (otherwise the polynomials do not cut out a complete intersection and an error is returned).
+
+pub mod bott;
+pub mod complex;
+
+use crate::arith::{self, Field, LARGE_PRIMES, PrimeField, RationalField, SparseMatrix, SparseVec};
+use crate::geometry::Configuration;
+use crate::poly::{Polynomial, VariableLayout};
+use complex::{Cochain, Complex, E1Page, FieldPolys, koszul_degree};
+use num_bigint::BigInt;
+use num_rational::BigRational;
+use num_traits::{One, ToPrimitive};
+use serde::Serialize;
+use std::collections::HashMap;
+use std::sync::{Arc, Mutex};
+use thiserror::Error;
+
+/// Largest total `E_1` dimension (sum over all groups) computed for one line bundle.
+pub const MAX_E1_DIMENSION: u128 = 400_000;
+/// Default seed of generic coefficients.
+pub const DEFAULT_SEED: u64 = 20_261_202;
+/// Generic coefficients are drawn uniformly from `[-GENERIC_COEFFICIENT_BOUND, GENERIC_COEFFICIENT_BOUND] ∖ {0}`.
+pub const GENERIC_COEFFICIENT_BOUND: i64 = 1 << 20;
+/// Largest number of Čech–Koszul terms exported per lifted representative.
+pub const MAX_LIFT_TERMS: usize = 20_000;
+
+/// Why a cohomology computation was refused.
+#[derive(Debug, Error, Clone, PartialEq, Eq)]
+#[non_exhaustive]
+pub enum CohomologyError {
+    #[error(
+        "line bundle {bundle:?} has {got} entries but the ambient space has {expected} factors"
+    )]
+    BundleLength {
+        bundle: Vec<i64>,
+        got: usize,
+        expected: usize,
+    },
+    #[error(
+        "line bundle {bundle:?} is too large to compute: its E_1 page has dimension {size} (limit {MAX_E1_DIMENSION})"
+    )]
+    TooLarge { bundle: Vec<i64>, size: u128 },
+    #[error("{count} polynomials given for {expected} equations")]
+    PolynomialCount { count: usize, expected: usize },
+    #[error(
+        "the given polynomials do not cut out a complete intersection: hypercohomology in degree {degree} for bundle {bundle:?} (a degenerate or repeated equation)"
+    )]
+    NotCompleteIntersection { bundle: Vec<i64>, degree: i64 },
+    #[error("the given polynomial coefficients are not defined modulo {0}")]
+    BadPrime(u64),
+}
+
+/// Which defining polynomials the engine uses.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum PolynomialChoice {
+    /// Random non-zero integer coefficients for every monomial, from this seed (reproducible).
+    Generic { seed: u64 },
+    /// The user's polynomials, one per equation, exactly.
+    Given(Vec<Polynomial>),
+}
+
+/// How a result was obtained (the `method` JSON object).
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct Method {
+    /// `"dimensions"` (no map needed: every differential has a zero source or target) or `"ranks"`.
+    pub kind: String,
+    /// `"generic"` or `"given"`.
+    pub polynomials: String,
+    /// The seed of the generic coefficients (generic mode).
+    pub seed: Option<u64>,
+    /// Field(s) used for ranks, e.g. `"Q (exact)"` or `"F_p"`.
+    pub field: Option<String>,
+    /// Primes used (generic mode with ranks).
+    pub primes: Vec<u64>,
+    /// How the answer is certified.
+    pub certification: String,
+    /// Whether a higher differential `d_r`, `r ≥ 2`, had a non-zero source and target (so it was computed).
+    pub higher_differentials: bool,
+}
+
+/// One non-zero `E_1` group in a result (`H^q(A, ∧^p N^* ⊗ O(k))` summand).
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct E1Summary {
+    /// Equations in the Koszul index set (1-based).
+    pub koszul: Vec<usize>,
+    pub p: usize,
+    pub q: usize,
+    /// The ambient line bundle `k − Σ_{j∈S} q_j`.
+    pub ambient_bundle: Vec<i64>,
+    pub dim: usize,
+}
+
+/// `h^•(X, O_X(k))` with provenance.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct LineBundleCohomology {
+    pub bundle: Vec<i64>,
+    /// `[h^0, …, h^{dim X}]`.
+    pub h: Vec<u64>,
+    /// `Σ (−1)^q h^q` (equals the HRR index).
+    pub index: i64,
+    pub method: Method,
+    pub e1: Vec<E1Summary>,
+}
+
+/// One monomial term of a representative: an `E_1` coordinate.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct BottTerm {
+    /// Koszul index set (1-based equations): the term lives in `H^q(A, O(k − Σ_{j∈S} q_j)) e_S`.
+    pub koszul: Vec<usize>,
+    pub q: usize,
+    /// Laurent exponents, one array per ambient factor.
+    pub monomial: Vec<Vec<i32>>,
+    /// Exact coefficient, `"p/q"` or an integer string.
+    pub coefficient: String,
+}
+
+/// One Čech–Koszul term of a lifted cocycle.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct CechTerm {
+    pub koszul: Vec<usize>,
+    /// One face per factor: the sorted vertices `I_i` of the Čech cochain.
+    pub faces: Vec<Vec<usize>>,
+    pub monomial: Vec<Vec<i32>>,
+    pub coefficient: String,
+}
+
+/// A basis class of `H^q(X, O_X(k))` with its representatives.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct ClassRepresentative {
+    pub degree: usize,
+    /// The type τ: the smallest `p` such that the class has an `E_1` representative supported on Koszul degrees
+    /// `≤ p` (it descends from `H^{degree+τ}(A, ∧^τ N^* ⊗ L)`).
+    #[serde(rename = "type")]
+    pub class_type: usize,
+    /// The `E_1` cocycle (its leading terms have Koszul degree = type).
+    pub bott_terms: Vec<BottTerm>,
+    /// The full lifted Čech–Koszul cocycle `ι'(v) = ι(v) − h A ι(v)` (including the correction terms).
+    pub lift: Vec<CechTerm>,
+    /// True when `lift` was cut at [`MAX_LIFT_TERMS`] terms.
+    pub lift_truncated: bool,
+}
+
+/// Estimate `Σ_S dim H^•(A, O(k − q_S))` without enumerating.
+pub fn estimate_e1_size(config: &Configuration, k: &[i64]) -> u128 {
+    let kk = config.codimension();
+    (0u32..(1 << kk))
+        .filter_map(|s| {
+            bott::bott_dimension(config.dims(), &koszul_degree(k, config.equations(), s))
+        })
+        .map(|(_, d)| d)
+        .fold(0u128, |a, b| a.saturating_add(b))
+}
+
+/// Line-bundle cohomology for one configuration and polynomial choice, memoised by bundle.
+pub struct CohomologyEngine {
+    config: Configuration,
+    layout: VariableLayout,
+    choice: PolynomialChoice,
+    polys: Vec<Polynomial>,
+    cache: Mutex<HashMap<Vec<i64>, Arc<LineBundleCohomology>>>,
+}
+
+fn to_field_polys<F: Field>(field: &F, polys: &[Polynomial]) -> Option<FieldPolys<F::Elem>> {
+    let mut terms = Vec::with_capacity(polys.len());
+    for p in polys {
+        let mut t = Vec::with_capacity(p.num_terms());
+        for (e, c) in p.terms() {
+            let v = field.from_rational(c)?;
+            if !field.is_zero(&v) {
+                t.push((e.iter().map(|&x| x as i32).collect(), v));
+            }
+        }
+        terms.push(t);
+    }
+    Some(FieldPolys { terms })
+}
+
+fn rational_text(c: &BigRational) -> String {
+    c.to_string()
+}
+
+impl CohomologyEngine {
+    /// An engine for `config` with the given polynomial choice. Given polynomials must be one per equation and
+    /// already checked against the declared multidegrees (the model loader does this).
+    pub fn new(config: &Configuration, choice: PolynomialChoice) -> Result<Self, CohomologyError> {
+        let layout = VariableLayout::new(config.dims());
+        let polys = match &choice {
+            PolynomialChoice::Generic { seed } => config
+                .equations()
+                .iter()
+                .enumerate()
+                .map(|(j, q)| {
+                    Polynomial::random(
+                        &layout,
+                        q,
+                        seed.wrapping_add(j as u64),
+                        GENERIC_COEFFICIENT_BOUND,
+                    )
+                })
+                .collect(),
+            PolynomialChoice::Given(p) => {
+                if p.len() != config.codimension() {
+                    return Err(CohomologyError::PolynomialCount {
+                        count: p.len(),
+                        expected: config.codimension(),
+                    });
+                }
+                p.clone()
+            }
+        };
+        Ok(CohomologyEngine {
+            config: config.clone(),
+            layout,
+            choice,
+            polys,
+            cache: Mutex::new(HashMap::new()),
+        })
+    }
+
+    /// The configuration.
+    pub fn config(&self) -> &Configuration {
+        &self.config
+    }
+
+    /// The polynomials in use (generated ones in generic mode).
+    pub fn polynomials(&self) -> &[Polynomial] {
+        &self.polys
+    }
+
+    /// The polynomial choice.
+    pub fn choice(&self) -> &PolynomialChoice {
+        &self.choice
+    }
+
+    /// Number of cached bundles.
+    pub fn cache_len(&self) -> usize {
+        self.cache.lock().map(|c| c.len()).unwrap_or(0)
+    }
+
+    fn check_bundle(&self, k: &[i64]) -> Result<(), CohomologyError> {
+        let m = self.config.num_factors();
+        if k.len() != m {
+            return Err(CohomologyError::BundleLength {
+                bundle: k.to_vec(),
+                got: k.len(),
+                expected: m,
+            });
+        }
+        let size = estimate_e1_size(&self.config, k);
+        if size > MAX_E1_DIMENSION {
+            return Err(CohomologyError::TooLarge {
+                bundle: k.to_vec(),
+                size,
+            });
+        }
+        Ok(())
+    }
+
+    /// `h^•(X, O_X(k))`, memoised.
+    pub fn cohomology(&self, k: &[i64]) -> Result<Arc<LineBundleCohomology>, CohomologyError> {
+        if let Some(hit) = self.cache.lock().ok().and_then(|c| c.get(k).cloned()) {
+            return Ok(hit);
+        }
+        self.check_bundle(k)?;
+        let result = Arc::new(self.compute(k)?);
+        if let Ok(mut c) = self.cache.lock() {
+            c.insert(k.to_vec(), result.clone());
+        }
+        Ok(result)
+    }
+
+    fn compute(&self, k: &[i64]) -> Result<LineBundleCohomology, CohomologyError> {
+        let page = E1Page::new(&self.layout, self.config.equations(), k);
+        let dim_x = self.config.dimension() as i64;
+        let kk = self.config.codimension() as i64;
+        let e1 = page
+            .groups
+            .iter()
+            .map(|g| E1Summary {
+                koszul: (0..self.config.codimension())
+                    .filter(|j| g.koszul & (1 << j) != 0)
+                    .map(|j| j + 1)
+                    .collect(),
+                p: g.p,
+                q: g.bott.q,
+                ambient_bundle: g.bott.degree.clone(),
+                dim: g.bott.dim(),
+            })
+            .collect();
+        let degrees: Vec<i64> = (-kk..=self.config.ambient_dimension() as i64).collect();
+        let needs_map: Vec<i64> = degrees
+            .iter()
+            .copied()
+            .filter(|&m| page.dim(m) > 0 && page.dim(m + 1) > 0)
+            .collect();
+        let polynomials = match self.choice {
+            PolynomialChoice::Generic { .. } => "generic",
+            PolynomialChoice::Given(_) => "given",
+        };
+        let seed = match self.choice {
+            PolynomialChoice::Generic { seed } => Some(seed),
+            PolynomialChoice::Given(_) => None,
+        };
+        let mut ranks: HashMap<i64, usize> = HashMap::new();
+        let higher = page.groups.iter().any(|g| page.needs_higher(g));
+        let method = if needs_map.is_empty() {
+            Method {
+                kind: "dimensions".into(),
+                polynomials: polynomials.into(),
+                seed,
+                field: None,
+                primes: vec![],
+                certification: "determined by the dimensions of the E_1 page: every differential has a zero source or target".into(),
+                higher_differentials: false,
+            }
+        } else {
+            match &self.choice {
+                PolynomialChoice::Given(_) => {
+                    let field = RationalField;
+                    let polys = to_field_polys(&field, &self.polys).expect("rationals");
+                    let cx = Complex {
+                        field: &field,
+                        layout: &self.layout,
+                        page: &page,
+                        polys: &polys,
+                    };
+                    for &m in &needs_map {
+                        ranks.insert(m, arith::rank(&field, &cx.differential_matrix(m)));
+                    }
+                    Method {
+                        kind: "ranks".into(),
+                        polynomials: polynomials.into(),
+                        seed,
+                        field: Some(field.describe()),
+                        primes: vec![],
+                        certification: "exact: ranks computed over Q with the given polynomials"
+                            .into(),
+                        higher_differentials: higher,
+                    }
+                }
+                PolynomialChoice::Generic { .. } => {
+                    let mut used = Vec::new();
+                    let mut per_prime: Vec<HashMap<i64, usize>> = Vec::new();
+                    for &p in LARGE_PRIMES.iter() {
+                        let field = PrimeField::new(p).expect("prime");
+                        let Some(polys) = to_field_polys(&field, &self.polys) else {
+                            continue;
+                        };
+                        let cx = Complex {
+                            field: &field,
+                            layout: &self.layout,
+                            page: &page,
+                            polys: &polys,
+                        };
+                        let r: HashMap<i64, usize> = needs_map
+                            .iter()
+                            .map(|&m| (m, arith::rank(&field, &cx.differential_matrix(m))))
+                            .collect();
+                        used.push(p);
+                        per_prime.push(r);
+                        if per_prime.len() >= 2
+                            && per_prime[per_prime.len() - 1] == per_prime[per_prime.len() - 2]
+                        {
+                            break;
+                        }
+                    }
+                    // rank mod p ≤ rank over Q for every p: take the maximum.
+                    for &m in &needs_map {
+                        ranks.insert(m, per_prime.iter().map(|r| r[&m]).max().unwrap_or(0));
+                    }
+                    let agreed = per_prime.len() >= 2
+                        && per_prime[per_prime.len() - 1] == per_prime[per_prime.len() - 2];
+                    Method {
+                        kind: "ranks".into(),
+                        polynomials: polynomials.into(),
+                        seed,
+                        field: Some("F_p".into()),
+                        primes: used,
+                        certification: if agreed {
+                            "generic: ranks agree over the last two primes for integer coefficients drawn from the seed; this is the cohomology of that member with high probability, and an upper bound attained by a generic member".into()
+                        } else {
+                            "generic: the primes disagreed; the largest rank found is used (an upper bound on the cohomology of a generic member)".into()
+                        },
+                        higher_differentials: higher,
+                    }
+                }
+            }
+        };
+        let rank = |m: i64| ranks.get(&m).copied().unwrap_or(0) as i64;
+        let mut h = vec![0u64; dim_x as usize + 1];
+        for &m in &degrees {
+            let v = page.dim(m) as i64 - rank(m) - rank(m - 1);
+            if (0..=dim_x).contains(&m) {
+                h[m as usize] = v.max(0) as u64;
+            } else if v != 0 {
+                return Err(CohomologyError::NotCompleteIntersection {
+                    bundle: k.to_vec(),
+                    degree: m,
+                });
+            }
+        }
+        let index = h
+            .iter()
+            .enumerate()
+            .map(|(q, &x)| if q % 2 == 0 { x as i64 } else { -(x as i64) })
+            .sum();
+        Ok(LineBundleCohomology {
+            bundle: k.to_vec(),
+            h,
+            index,
+            method,
+            e1,
+        })
+    }
+
+    /// A basis of `H^q(X, O_X(k))` for every `q`, each class with its type, its `E_1` cocycle and its lifted
+    /// Čech–Koszul cocycle, computed exactly over Q with the engine's polynomials (in generic mode, the integer
+    /// member drawn from the seed).
+    pub fn representatives(&self, k: &[i64]) -> Result<Vec<ClassRepresentative>, CohomologyError> {
+        self.check_bundle(k)?;
+        let page = E1Page::new(&self.layout, self.config.equations(), k);
+        let field = RationalField;
+        let polys = to_field_polys(&field, &self.polys).expect("rationals");
+        let cx = Complex {
+            field: &field,
+            layout: &self.layout,
+            page: &page,
+            polys: &polys,
+        };
+        let mut out = Vec::new();
+        for q in 0..=self.config.dimension() as i64 {
+            let n = page.dim(q);
+            if n == 0 {
+                continue;
+            }
+            let dq = cx.differential_matrix(q);
+            let kernel: Vec<SparseVec<BigRational>> = if page.dim(q + 1) > 0 {
+                arith::kernel_basis(&field, &dq)
+            } else {
+                (0..n).map(|i| vec![(i, BigRational::one())]).collect()
+            };
+            let image: Vec<SparseVec<BigRational>> = if page.dim(q - 1) > 0 {
+                cx.differential_matrix(q - 1).transpose().rows
+            } else {
+                vec![]
+            };
+            let z = arith::echelon(&field, n, kernel);
+            let b = arith::echelon(&field, n, image);
+            for (pivot, row) in z.pivots.iter().zip(&z.rows) {
+                if b.pivots.contains(pivot) {
+                    continue;
+                }
+                let g = page
+                    .groups_of_degree(q)
+                    .find(|g| *pivot >= g.offset && *pivot < g.offset + g.bott.dim())
+                    .expect("pivot inside degree q");
+                let bott_terms = row
+                    .iter()
+                    .map(|(idx, c)| {
+                        let g = page
+                            .groups_of_degree(q)
+                            .find(|g| *idx >= g.offset && *idx < g.offset + g.bott.dim())
+                            .expect("index inside degree q");
+                        BottTerm {
+                            koszul: self.koszul_list(g.koszul),
+                            q: g.bott.q,
+                            monomial: self.split_monomial(&g.bott.basis[idx - g.offset]),
+                            coefficient: rational_text(c),
+                        }
+                    })
+                    .collect();
+                let lifted = cx.lift(q, row);
+                let (lift, lift_truncated) = self.render_cochain(&lifted);
+                out.push(ClassRepresentative {
+                    degree: q as usize,
+                    class_type: g.p,
+                    bott_terms,
+                    lift,
+                    lift_truncated,
+                });
+            }
+        }
+        Ok(out)
+    }
+
+    fn koszul_list(&self, s: u32) -> Vec<usize> {
+        (0..self.config.codimension())
+            .filter(|j| s & (1 << j) != 0)
+            .map(|j| j + 1)
+            .collect()
+    }
+
+    fn split_monomial(&self, e: &[i32]) -> Vec<Vec<i32>> {
+        (0..self.config.num_factors())
+            .map(|i| e[self.layout.range(i)].to_vec())
+            .collect()
+    }
+
+    fn render_cochain(&self, c: &Cochain<BigRational>) -> (Vec<CechTerm>, bool) {
+        let mut keys: Vec<_> = c.keys().collect();
+        keys.sort();
+        let truncated = keys.len() > MAX_LIFT_TERMS;
+        let terms = keys
+            .into_iter()
+            .take(MAX_LIFT_TERMS)
+            .map(|key| CechTerm {
+                koszul: self.koszul_list(key.koszul),
+                faces: key
+                    .faces
+                    .iter()
+                    .map(|f| (0..64).filter(|l| f & (1u64 << l) != 0).collect())
+                    .collect(),
+                monomial: self.split_monomial(&key.exps),
+                coefficient: rational_text(&c[key]),
+            })
+            .collect();
+        (terms, truncated)
+    }
+}
+
+/// `χ` from a result as a `BigInt` (convenience for comparisons with the HRR index).
+pub fn index_of(result: &LineBundleCohomology) -> BigInt {
+    BigInt::from(result.index)
+}
+
+/// Convert `h` to `i64` values (convenience for callers that mix with signed arithmetic).
+pub fn h_as_i64(result: &LineBundleCohomology) -> Vec<i64> {
+    result
+        .h
+        .iter()
+        .map(|&x| x.to_i64().unwrap_or(i64::MAX))
+        .collect()
+}
+
+/// The matrix of `D: E_1^m → E_1^{m+1}` over a prime field, for tests and diagnostics.
+pub fn differential_matrix_mod_p(
+    engine: &CohomologyEngine,
+    k: &[i64],
+    m: i64,
+    p: u64,
+) -> Option<SparseMatrix<u64>> {
+    let field = PrimeField::new(p)?;
+    let page = E1Page::new(&engine.layout, engine.config.equations(), k);
+    let polys = to_field_polys(&field, &engine.polys)?;
+    let cx = Complex {
+        field: &field,
+        layout: &engine.layout,
+        page: &page,
+        polys: &polys,
+    };
+    Some(cx.differential_matrix(m))
+}
