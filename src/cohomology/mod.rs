@@ -170,7 +170,7 @@ pub struct CohomologyEngine {
     cache: Mutex<HashMap<Vec<i64>, Arc<LineBundleCohomology>>>,
 }
 
-fn to_field_polys<F: Field>(field: &F, polys: &[Polynomial]) -> Option<FieldPolys<F::Elem>> {
+pub fn to_field_polys<F: Field>(field: &F, polys: &[Polynomial]) -> Option<FieldPolys<F::Elem>> {
     let mut terms = Vec::with_capacity(polys.len());
     for p in polys {
         let mut t = Vec::with_capacity(p.num_terms());

@@ -19,9 +19,8 @@ lbKK = ZZ/32003;
 -- Cox ring with variables xI_J (I 1-based factor, J 0-based coordinate)
 coxRing = (n) -> (
     m := #n;
-    names := flatten apply(m, i -> apply(n#i + 1, j -> "x" | toString(i+1) | "_" | toString j));
+    varsyms := flatten apply(m, i -> apply(n#i + 1, j -> (getSymbol("x" | toString(i+1)))_j));
     degs := flatten apply(m, i -> apply(n#i + 1, j -> apply(m, l -> if l == i then 1 else 0)));
-    varsyms := apply(names, s -> getSymbol s);
     lbKK(monoid[varsyms, Degrees => degs])
 );
 
@@ -53,7 +52,7 @@ lbCohomology = (n, qs, eqs, k) -> (
     kp := k + t * one;
     -- Segre ring
     idx := toList fold((a, b) -> flatten apply(a, u -> apply(b, v -> append(u, v))), {{}}, apply(m, i -> toList(0..n#i)));
-    offs := accumulate(plus, 0, apply(n, a -> a + 1));
+    offs := apply(m, i -> sum apply(i, l -> n#l + 1));
     xv := (i, j) -> S_((offs#i) + j);
     zs := apply(idx, I -> product apply(m, i -> xv(i, I#i)));
     z := getSymbol "z";
@@ -72,9 +71,10 @@ lbCohomology = (n, qs, eqs, k) -> (
     scan(#idx, I -> scan(#gs, a -> (
         p := zs#I * gs#a;
         groups#p = append(if groups#?p then groups#p else {}, (I, a)))));
+    -- relations are stored as lists of (generator index, coefficient in D)
     lin := flatten apply(values groups, L -> apply(#L - 1, c -> (
         (I1, a1) := L#c; (I2, a2) := L#(c+1);
-        D_I1 * (D^s)_a1 - D_I2 * (D^s)_a2)));
+        {(a1, D_I1), (a2, - D_I2)})));
     -- factor a monomial of degree kp + r*one as (z-monomial of degree r) * generator
     factorMono := (mon, r) -> (
         ex := first exponents mon;
@@ -85,20 +85,24 @@ lbCohomology = (n, qs, eqs, k) -> (
                 ex = replace((offs#i) + j, ex#((offs#i) + j) - 1, ex);
                 j));
             zm = zm * D_(position(idx, u -> u == I))));
-        g := S_ex;
-        zm * (D^s)_(gpos#g));
+        (gpos#(S_ex), zm));
     eqrels := flatten apply(#eqs, j -> (
         q := qs#j;
         r := max(0, max(q - kp));
         mons := flatten entries basis(kp - q + r * one, S);
         apply(mons, mo -> (
             F := eqs#j * mo;
-            (cs, ms) := (coefficients F, null);
-            sum apply(terms F, tm -> (leadCoefficient tm) * factorMono(leadMonomial tm, r))))));
+            H := new MutableHashTable;
+            scan(terms F, tm -> (
+                (a, zm) := factorMono(leadMonomial tm, r);
+                H#a = (if H#?a then H#a else 0_D) + (leadCoefficient tm) * zm));
+            pairs H))));
     allrels := lin | eqrels;
-    R := if #allrels == 0 then map(D^s, D^0, 0) else matrix apply(allrels, v -> {v});
-    R = if #allrels == 0 then R else transpose matrix apply(allrels, v -> flatten entries v);
-    P := coker map(D^s, , R);
+    nr := #allrels;
+    ents := flatten apply(nr, c -> apply(allrels#c, pr -> (pr#0, c) => pr#1));
+    R := map(D^s, D^nr, ents);
+    R = map(D^s, , R);
+    P := coker R;
     -- verify Hilbert polynomial against the exact Koszul count
     hp := hilbertPolynomial(P, Projective => false);
     ok := all(20..23, sv -> sub(hp, (ring hp)_0 => sv) == koszulDim(n, qs, kp + sv * one));
