@@ -4,9 +4,11 @@
 //! Data flows one way: model file ([`io`]) → [`geometry::Configuration`] → [`geometry::Geometry`] →
 //! cohomology → spectrum. The library never prints; the `sheafwright` binary parses, calls and renders.
 
+pub mod analysis;
 pub mod arith;
 pub mod bundle;
 pub mod cohomology;
 pub mod geometry;
 pub mod io;
 pub mod poly;
+pub mod slope;

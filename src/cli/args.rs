@@ -110,7 +110,7 @@ pub fn parse_equations(text: &str) -> Result<Vec<Vec<i64>>, UserError> {
 }
 
 /// How the defining polynomials are chosen (`--mode`, `--seed`).
-#[derive(Args, Debug, Clone)]
+#[derive(Args, Debug, Clone, Default)]
 pub struct PolyArgs {
     /// "generic" (random integer coefficients from --seed) or "given" (the model file's polynomials).
     /// Default: the model file's choice, else generic.
@@ -184,4 +184,28 @@ pub fn parse_box(text: &str) -> Result<(i64, i64), UserError> {
         return Err(UserError(format!("--box: empty range {lo}..{hi}")));
     }
     Ok((lo, hi))
+}
+
+/// The bundle sum: `--bundles` if given, else the model file's `[bundle]` section.
+pub fn bundle_sum(
+    inputs: &Inputs,
+    inline: Option<&str>,
+) -> Result<sheafwright::bundle::BundleSum, UserError> {
+    let m = inputs.config().num_factors();
+    match inline {
+        Some(text) => sheafwright::bundle::BundleSum::parse_inline_with_m(text, m)
+            .map_err(|e| UserError(format!("--bundles: {e}"))),
+        None => {
+            let lbs = inputs
+                .model()
+                .and_then(|md| md.line_bundles())
+                .ok_or_else(|| {
+                    UserError(
+                        "no line bundles: give --bundles or a model file with a [bundle] section"
+                            .into(),
+                    )
+                })?;
+            Ok(sheafwright::bundle::BundleSum::new(m, lbs.to_vec())?)
+        }
+    }
 }

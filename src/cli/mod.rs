@@ -9,6 +9,7 @@ mod render;
 use args::{ConfigArgs, Inputs};
 use clap::{Parser, Subcommand};
 use sheafwright::geometry::Geometry;
+use sheafwright::{analysis, slope};
 use std::path::PathBuf;
 
 /// Exact geometry and line-bundle data for heterotic models on Calabi-Yau complete intersections.
@@ -48,6 +49,22 @@ enum Command {
         #[arg(long)]
         threads: Option<usize>,
         /// Print JSON (one object, or one object per line for --box).
+        #[arg(long)]
+        json: bool,
+    },
+    /// Consistency checks, slope-zero certificate and the 4d spectrum with charges of a line-bundle sum.
+    Spectrum {
+        #[command(flatten)]
+        config: ConfigArgs,
+        #[command(flatten)]
+        poly: args::PolyArgs,
+        /// Line bundles of the sum, entries comma separated, bundles separated by ';' (default: the model's).
+        #[arg(long, allow_hyphen_values = true)]
+        bundles: Option<String>,
+        /// Draw the Kähler cone, each slope's zero locus and the certificate to this SVG file.
+        #[arg(long, value_name = "FILE.svg")]
+        plot: Option<PathBuf>,
+        /// Print one JSON object instead of tables.
         #[arg(long)]
         json: bool,
     },
@@ -147,16 +164,54 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                 _ => Err(UserError("give --bundle K or --box LO..HI".into())),
             }
         }
+        Command::Spectrum {
+            config,
+            poly,
+            bundles,
+            plot,
+            json,
+        } => {
+            let inputs = Inputs::from_args(&config)?;
+            let engine = poly.engine(&inputs)?;
+            let sum = args::bundle_sum(&inputs, bundles.as_deref())?;
+            let analysis = analysis::analyse(&engine, &sum)?;
+            if let Some(path) = plot {
+                let triple = analysis.geometry.triple.clone().unwrap_or_default();
+                let svg = slope::plot_kahler_cone_svg(&triple, sum.bundles(), &analysis.slope_zero);
+                sheafwright::io::write_atomic(&path, svg.as_bytes())
+                    .map_err(|e| UserError(format!("cannot write {}: {e}", path.display())))?;
+            }
+            if json {
+                Ok(render::json_line(&render::spectrum_json(
+                    &inputs, &analysis,
+                )?)?)
+            } else {
+                Ok(render::spectrum_text(&analysis))
+            }
+        }
         Command::Report { model, json } => {
             let inputs = Inputs::from_model_path(&model)?;
+            let engine = args::PolyArgs::default().engine(&inputs)?;
             let geometry = Geometry::new(inputs.config());
             let summary = geometry.summary();
+            let favourability = analysis::favourability(&engine)?;
+            let analysis = match inputs.model().and_then(|m| m.line_bundles()) {
+                Some(_) => Some(analysis::analyse(
+                    &engine,
+                    &args::bundle_sum(&inputs, None)?,
+                )?),
+                None => None,
+            };
             if json {
-                let report = serde_json::json!({
+                let mut report = serde_json::json!({
                     "schema": "sheafwright.report/1",
                     "model": inputs.name(),
                     "geometry": summary,
+                    "favourability": favourability,
                 });
+                if let Some(a) = &analysis {
+                    report["spectrum"] = render::spectrum_json(&inputs, a)?;
+                }
                 Ok(render::json_line(&report)?)
             } else {
                 let mut out = String::new();
@@ -166,6 +221,16 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                 }
                 out.push_str("\n== Geometry ==\n");
                 out.push_str(&render::geometry_table(&summary));
+                out.push_str(&format!(
+                    "  favourability      {} ({})\n",
+                    favourability.status, favourability.reason
+                ));
+                match &analysis {
+                    Some(a) => out.push_str(&render::spectrum_text(a)),
+                    None => out.push_str(
+                        "\n(no [bundle] section: consistency checks and spectrum skipped)\n",
+                    ),
+                }
                 Ok(out)
             }
         }

@@ -1,0 +1,136 @@
+//! Whole-model analysis: geometry, favourability, line-bundle cohomology, consistency, spectrum and the
+//! slope-zero certificate, assembled into one serialisable value for the `spectrum` and `report` commands.
+//!
+//! Invariant: every figure here is computed by the specialised modules; this module only wires them together
+//! (the cohomology engine is the single source of `h^q` values, shared through its cache).
+
+use crate::bundle::{BundleError, BundleSum, spectrum::Spectrum};
+use crate::cohomology::{CohomologyEngine, CohomologyError, LineBundleCohomology};
+use crate::geometry::{Geometry, GeometrySummary};
+use crate::slope::{SlopeOptions, SlopeZero, certify_slope_zero};
+use serde::Serialize;
+use std::sync::Arc;
+use thiserror::Error;
+
+/// Why an analysis failed (bad input or a cohomology refusal).
+#[derive(Debug, Error)]
+#[non_exhaustive]
+pub enum AnalysisError {
+    #[error("{0}")]
+    Bundle(#[from] BundleError),
+    #[error("{0}")]
+    Cohomology(#[from] CohomologyError),
+    #[error("the spectrum needs a Calabi-Yau threefold; this configuration has dimension {0}")]
+    NotThreefold(usize),
+    #[error("slope-zero certification: {0}")]
+    Slope(String),
+}
+
+/// Whether `h^{1,1}(X)` equals the number of ambient factors.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct Favourability {
+    /// `"favourable"` (certified) or `"not_certified"`.
+    pub status: String,
+    /// How it was decided.
+    pub reason: String,
+}
+
+/// Certify favourability from line-bundle cohomology. Sufficient condition (from the Euler sequences of the
+/// factors and the normal-bundle sequence `0 → TX → TA|_X → N → 0`, with `h^{1,1} = h^2(TX)` on a Calabi-Yau
+/// threefold): `H^{q>0}(X, O_X(J_i)) = 0` for every factor and `H^1 = H^2 = 0` for every `O_X(q_j)`; then
+/// `h^2(TA|_X) = m` and `H^2(TX) ≅ H^2(TA|_X)`. When the condition fails favourability is not decided.
+pub fn favourability(engine: &CohomologyEngine) -> Result<Favourability, CohomologyError> {
+    let config = engine.config();
+    let m = config.num_factors();
+    if config.dimension() != 3 {
+        return Ok(Favourability {
+            status: "not_certified".into(),
+            reason: "the test is implemented for threefolds only".into(),
+        });
+    }
+    for i in 0..m {
+        let mut e = vec![0i64; m];
+        e[i] = 1;
+        let r = engine.cohomology(&e)?;
+        if r.h[1..].iter().any(|&x| x != 0) {
+            return Ok(Favourability {
+                status: "not_certified".into(),
+                reason: format!(
+                    "H^q(X, O_X(J_{})) is non-zero for some q > 0: h = {:?}",
+                    i + 1,
+                    r.h
+                ),
+            });
+        }
+    }
+    for (j, q) in config.equations().iter().enumerate() {
+        let k: Vec<i64> = q.iter().map(|&d| d as i64).collect();
+        let r = engine.cohomology(&k)?;
+        if r.h[1] != 0 || r.h[2] != 0 {
+            return Ok(Favourability {
+                status: "not_certified".into(),
+                reason: format!(
+                    "H^1 or H^2 of the normal summand O_X({k:?}) of equation {} is non-zero: h = {:?}",
+                    j + 1,
+                    r.h
+                ),
+            });
+        }
+    }
+    Ok(Favourability {
+        status: "favourable".into(),
+        reason: format!(
+            "certified: H^(q>0)(O_X(J_i)) = 0 and H^1 = H^2 = 0 for every normal summand, so h^(1,1)(X) = h^2(TA|X) = {m}"
+        ),
+    })
+}
+
+/// Everything about a model with a bundle sum.
+#[derive(Clone, Debug, Serialize)]
+pub struct ModelAnalysis {
+    pub geometry: GeometrySummary,
+    pub favourability: Favourability,
+    /// The line bundles `L_a` with their cohomology.
+    pub line_bundles: Vec<Arc<LineBundleCohomology>>,
+    /// Consistency checks, the spectrum and the builder flags (keys `rank`, `c1_zero`, `c2_bundle`, `anomaly_ok`,
+    /// `index`, `families`, `multiplets`, …).
+    pub spectrum: Spectrum,
+    /// The slope-zero certificate (`status` in `exists`, `none`, `undecided`).
+    pub slope_zero: SlopeZero,
+}
+
+/// Run every analysis for `bundles` on the engine's configuration.
+pub fn analyse(
+    engine: &CohomologyEngine,
+    bundles: &BundleSum,
+) -> Result<ModelAnalysis, AnalysisError> {
+    let config = engine.config();
+    if config.dimension() != 3 {
+        return Err(AnalysisError::NotThreefold(config.dimension()));
+    }
+    let geometry = Geometry::new(config);
+    let summary = geometry.summary();
+    let triple = summary.triple.clone().expect("threefold");
+    let c2 = summary.c2.clone().expect("threefold");
+    let callback = |k: &[i64]| -> Result<Vec<u64>, String> {
+        engine
+            .cohomology(k)
+            .map(|r| r.h.clone())
+            .map_err(|e| e.to_string())
+    };
+    let spectrum = crate::bundle::spectrum::spectrum(&triple, &c2, bundles, &callback)?;
+    let line_bundles = bundles
+        .bundles()
+        .iter()
+        .map(|k| engine.cohomology(k))
+        .collect::<Result<Vec<_>, _>>()?;
+    let slope_zero = certify_slope_zero(&triple, bundles.bundles(), &SlopeOptions::default())
+        .map_err(|e| AnalysisError::Slope(format!("{e:?}")))?;
+    Ok(ModelAnalysis {
+        geometry: summary,
+        favourability: favourability(engine)?,
+        line_bundles,
+        spectrum,
+        slope_zero,
+    })
+}

@@ -1,0 +1,478 @@
+//! SVG drawing of the projectivised Kähler cone, the zero loci `μ_a = 0` of
+//! the bundles' slopes, and the certified point or box.
+//!
+//! Pictures: `m = 1` a note (the cone is a single ray); `m = 2` the segment
+//! `t = (1-x, x)`, `0 <= x <= 1`; `m = 3` the simplex `Σ t = 1` drawn as a
+//! triangle in barycentric coordinates; `m >= 4` the 2-d slice through a point
+//! `p` (the certified point, else the barycentre), normalised so `Σ p = 1`,
+//! in which `t^4..t^m` are frozen at `p` and `(t^1,t^2,t^3)` range over the
+//! triangle `t^1+t^2+t^3 = p^1+p^2+p^3`; the slice is stated in the picture.
+//!
+//! Invariant: drawing uses floats only and never influences a verdict; the
+//! output is a self-contained SVG document (root element with `xmlns`,
+//! `viewBox`, balanced tags, escaped text) and the function never panics.
+
+use super::certify::{float_quad, float_slopes};
+use super::{ExistsCertificate, NoneCertificate, SlopeZero};
+use num_traits::ToPrimitive;
+use std::fmt::Write;
+
+const W: f64 = 720.0;
+const H: f64 = 600.0;
+const COLOURS: [&str; 8] = [
+    "#d62728", "#1f77b4", "#2ca02c", "#9467bd", "#ff7f0e", "#8c564b", "#e377c2", "#17becf",
+];
+
+fn esc(s: &str) -> String {
+    s.replace('&', "&amp;")
+        .replace('<', "&lt;")
+        .replace('>', "&gt;")
+        .replace('"', "&quot;")
+}
+
+fn text(out: &mut String, x: f64, y: f64, size: u32, anchor: &str, s: &str) {
+    let _ = writeln!(
+        out,
+        r#"<text x="{x:.1}" y="{y:.1}" font-family="sans-serif" font-size="{size}" text-anchor="{anchor}">{}</text>"#,
+        esc(s)
+    );
+}
+
+/// The certified point (normalised to `Σ = 1`) and a label, if any.
+fn marked_point(result: &SlopeZero, m: usize) -> Option<(Vec<f64>, String)> {
+    let (t, label) = match result {
+        SlopeZero::Exists(ExistsCertificate::RationalPoint { point }) => (
+            point
+                .iter()
+                .map(|q| q.to_f64().unwrap_or(f64::NAN))
+                .collect::<Vec<f64>>(),
+            format!(
+                "certified rational point ({})",
+                point
+                    .iter()
+                    .map(|q| q.to_string())
+                    .collect::<Vec<_>>()
+                    .join(", ")
+            ),
+        ),
+        SlopeZero::Exists(ExistsCertificate::KrawczykBox {
+            bx, free, fixed, ..
+        }) => {
+            let mut t = vec![f64::NAN; m];
+            for (k, &i) in free.iter().enumerate() {
+                if let (Some(iv), true) = (bx.get(k), i < m) {
+                    t[i] = iv.mid().to_f64().unwrap_or(f64::NAN);
+                }
+            }
+            for (i, v) in fixed {
+                if *i < m {
+                    t[*i] = v.to_f64().unwrap_or(f64::NAN);
+                }
+            }
+            (
+                t,
+                "Krawczyk box (certified zero inside; drawn at its centre)".to_string(),
+            )
+        }
+        _ => return None,
+    };
+    if t.len() != m || t.iter().any(|v| !v.is_finite() || *v <= 0.0) {
+        return None;
+    }
+    let s: f64 = t.iter().sum();
+    Some((t.iter().map(|v| v / s).collect(), label))
+}
+
+fn header(result: &SlopeZero, m: usize) -> String {
+    let kind = match result {
+        SlopeZero::Exists(ExistsCertificate::RationalPoint { .. }) => "rational point",
+        SlopeZero::Exists(ExistsCertificate::KrawczykBox { .. }) => "Krawczyk box",
+        SlopeZero::None(NoneCertificate::SignObstruction { .. }) => "sign obstruction",
+        SlopeZero::None(NoneCertificate::CombinationObstruction { .. }) => {
+            "combination sign obstruction"
+        }
+        SlopeZero::None(NoneCertificate::Subdivision { .. }) => "box subdivision",
+        SlopeZero::Undecided { .. } => "no certificate",
+    };
+    format!(
+        "Slope-zero locus in the Kähler cone (m = {m}): {} — {kind}",
+        result.status()
+    )
+}
+
+/// Renders the projectivised Kähler cone with every bundle's zero locus
+/// `μ_a = 0`, a legend (bundle index and entries) and the certified point or
+/// box of `result`.
+///
+/// Preconditions: none (malformed input yields an SVG that says so). The
+/// curves are sampled in floats (drawing only). Cost: `O(r m^2 N^2)` float
+/// operations with `N = 120` grid steps per side. Returns the SVG text.
+pub fn plot_kahler_cone_svg(
+    triple: &[Vec<Vec<i64>>],
+    bundles: &[Vec<i64>],
+    result: &SlopeZero,
+) -> String {
+    let m = triple.len();
+    let mut out = String::new();
+    let _ = writeln!(
+        out,
+        r#"<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 {W} {H}" width="{W}" height="{H}">"#
+    );
+    let _ = writeln!(
+        out,
+        r#"<rect x="0" y="0" width="{W}" height="{H}" fill="white"/>"#
+    );
+    text(&mut out, W / 2.0, 26.0, 16, "middle", &header(result, m));
+    let shapes_ok = m > 0
+        && triple
+            .iter()
+            .all(|p| p.len() == m && p.iter().all(|r| r.len() == m))
+        && bundles.iter().all(|k| k.len() == m);
+    if !shapes_ok {
+        text(
+            &mut out,
+            W / 2.0,
+            H / 2.0,
+            14,
+            "middle",
+            "malformed input: nothing to draw",
+        );
+        out.push_str("</svg>\n");
+        return out;
+    }
+    let mats = float_slopes(triple, bundles);
+    let mark = marked_point(result, m);
+    // Legend.
+    let ly0 = H - 20.0 - 18.0 * bundles.len() as f64;
+    for (a, k) in bundles.iter().enumerate() {
+        let y = ly0 + 18.0 * a as f64;
+        let col = COLOURS[a % COLOURS.len()];
+        let _ = writeln!(
+            out,
+            r#"<line x1="20" y1="{:.1}" x2="44" y2="{:.1}" stroke="{col}" stroke-width="3"/>"#,
+            y - 4.0,
+            y - 4.0
+        );
+        let entries: Vec<String> = k.iter().map(|v| v.to_string()).collect();
+        text(
+            &mut out,
+            50.0,
+            y,
+            12,
+            "start",
+            &format!(
+                "bundle {}: O({})  — zero locus μ{} = 0",
+                a + 1,
+                entries.join(","),
+                a + 1
+            ),
+        );
+    }
+    if let SlopeZero::Undecided { reason } = result {
+        let short: String = reason.chars().take(110).collect();
+        text(
+            &mut out,
+            W / 2.0,
+            46.0,
+            11,
+            "middle",
+            &format!("reason: {short}"),
+        );
+    }
+    match m {
+        1 => text(
+            &mut out,
+            W / 2.0,
+            H / 2.0 - 40.0,
+            14,
+            "middle",
+            "m = 1: the projectivised Kähler cone is a single point; μ = d k t² vanishes only if k = 0",
+        ),
+        2 => draw_segment(&mut out, &mats, &mark),
+        _ => draw_triangle(&mut out, &mats, m, &mark, result),
+    }
+    out.push_str("</svg>\n");
+    out
+}
+
+fn draw_segment(out: &mut String, mats: &[Vec<Vec<f64>>], mark: &Option<(Vec<f64>, String)>) {
+    let (x0, x1, y) = (80.0, W - 80.0, 240.0);
+    let px = |x: f64| x0 + (x1 - x0) * x;
+    let _ = writeln!(
+        out,
+        r#"<line x1="{x0}" y1="{y}" x2="{x1}" y2="{y}" stroke="black" stroke-width="2" stroke-dasharray="1,0"/>"#
+    );
+    let _ = writeln!(
+        out,
+        r#"<circle cx="{x0}" cy="{y}" r="4" fill="white" stroke="black"/>"#
+    );
+    let _ = writeln!(
+        out,
+        r#"<circle cx="{x1}" cy="{y}" r="4" fill="white" stroke="black"/>"#
+    );
+    text(out, x0, y + 28.0, 13, "middle", "t = (1, 0)");
+    text(out, x1, y + 28.0, 13, "middle", "t = (0, 1)");
+    text(
+        out,
+        W / 2.0,
+        y + 60.0,
+        12,
+        "middle",
+        "open segment t = (1−x, x), 0 < x < 1 (end points are not in the cone)",
+    );
+    let n = 4000;
+    for (a, mat) in mats.iter().enumerate() {
+        let col = COLOURS[a % COLOURS.len()];
+        let f = |x: f64| float_quad(mat, &[1.0 - x, x]);
+        let scale = mat.iter().flatten().fold(0.0f64, |s, v| s.max(v.abs()));
+        if scale == 0.0 {
+            let _ = writeln!(
+                out,
+                r#"<line x1="{x0}" y1="{:.1}" x2="{x1}" y2="{:.1}" stroke="{col}" stroke-width="4" opacity="0.6"/>"#,
+                y - 8.0 - 6.0 * a as f64,
+                y - 8.0 - 6.0 * a as f64
+            );
+            continue;
+        }
+        let mut prev = f(0.0);
+        for i in 1..=n {
+            let x = i as f64 / n as f64;
+            let cur = f(x);
+            let crosses = (prev < 0.0 && cur >= 0.0) || (prev > 0.0 && cur <= 0.0) || prev == 0.0;
+            if crosses {
+                let z = if prev == 0.0 { x - 1.0 / n as f64 } else { x };
+                let xx = px(z);
+                let _ = writeln!(
+                    out,
+                    r#"<line x1="{xx:.1}" y1="{:.1}" x2="{xx:.1}" y2="{:.1}" stroke="{col}" stroke-width="3"/>"#,
+                    y - 12.0 - 16.0 * a as f64,
+                    y - 24.0 - 16.0 * a as f64
+                );
+            }
+            prev = cur;
+        }
+    }
+    if let Some((t, label)) = mark {
+        let xx = px(t[1]);
+        let _ = writeln!(
+            out,
+            r#"<circle cx="{xx:.1}" cy="{y}" r="7" fill="none" stroke="black" stroke-width="2"/>"#
+        );
+        text(
+            out,
+            xx,
+            y - 30.0 - 14.0 * mats.len() as f64,
+            12,
+            "middle",
+            label,
+        );
+    }
+}
+
+/// Outlines of the excluded boxes of a subdivision certificate (m = 3 only):
+/// a chart box is a rectangle in `t^j = 1`, whose image in the simplex is a
+/// quadrilateral (projective maps keep lines straight).
+fn draw_boxes(out: &mut String, result: &SlopeZero, proj: &dyn Fn([f64; 3]) -> (f64, f64)) {
+    let SlopeZero::None(NoneCertificate::Subdivision { boxes }) = result else {
+        return;
+    };
+    let mut path = String::new();
+    for b in boxes.iter().take(4000) {
+        if b.bx.len() != 3 {
+            return;
+        }
+        let lo: Vec<f64> =
+            b.bx.iter()
+                .map(|iv| iv.lo().to_f64().unwrap_or(0.0))
+                .collect();
+        let hi: Vec<f64> =
+            b.bx.iter()
+                .map(|iv| iv.hi().to_f64().unwrap_or(0.0))
+                .collect();
+        let free: Vec<usize> = (0..3).filter(|&i| i != b.chart).collect();
+        if free.len() != 2 {
+            return;
+        }
+        let corner = |x: bool, y: bool| {
+            let mut t = lo.clone();
+            if x {
+                t[free[0]] = hi[free[0]];
+            }
+            if y {
+                t[free[1]] = hi[free[1]];
+            }
+            let s: f64 = t.iter().sum();
+            proj([t[0] / s, t[1] / s, t[2] / s])
+        };
+        let c = [
+            corner(false, false),
+            corner(true, false),
+            corner(true, true),
+            corner(false, true),
+        ];
+        let _ = write!(
+            path,
+            "M{:.1} {:.1}L{:.1} {:.1}L{:.1} {:.1}L{:.1} {:.1}Z",
+            c[0].0, c[0].1, c[1].0, c[1].1, c[2].0, c[2].1, c[3].0, c[3].1
+        );
+    }
+    let _ = writeln!(
+        out,
+        r##"<path d="{path}" fill="none" stroke="#b0b0b0" stroke-width="0.5"/>"##
+    );
+    text(
+        out,
+        W / 2.0,
+        482.0,
+        12,
+        "middle",
+        &format!(
+            "grey: the {} excluded boxes of the certificate (chart boxes mapped to the simplex)",
+            boxes.len()
+        ),
+    );
+}
+
+fn draw_triangle(
+    out: &mut String,
+    mats: &[Vec<Vec<f64>>],
+    m: usize,
+    mark: &Option<(Vec<f64>, String)>,
+    result: &SlopeZero,
+) {
+    let base: Vec<f64> = match mark {
+        Some((t, _)) => t.clone(),
+        None => vec![1.0 / m as f64; m],
+    };
+    let s3: f64 = base[..3].iter().sum();
+    let va = (W / 2.0, 70.0);
+    let vb = (150.0, 430.0);
+    let vc = (W - 150.0, 430.0);
+    let proj = |b: [f64; 3]| {
+        (
+            b[0] * va.0 + b[1] * vb.0 + b[2] * vc.0,
+            b[0] * va.1 + b[1] * vb.1 + b[2] * vc.1,
+        )
+    };
+    let point = |b: [f64; 3]| {
+        let mut t = base.clone();
+        for i in 0..3 {
+            t[i] = s3 * b[i];
+        }
+        t
+    };
+    let _ = writeln!(
+        out,
+        r##"<polygon points="{:.1},{:.1} {:.1},{:.1} {:.1},{:.1}" fill="#f4f4f4" stroke="black" stroke-width="1.5"/>"##,
+        va.0, va.1, vb.0, vb.1, vc.0, vc.1
+    );
+    if m == 3 {
+        text(out, va.0, va.1 - 10.0, 13, "middle", "t = (1,0,0)");
+        text(out, vb.0 - 10.0, vb.1 + 18.0, 13, "middle", "t = (0,1,0)");
+        text(out, vc.0 + 10.0, vc.1 + 18.0, 13, "middle", "t = (0,0,1)");
+        text(
+            out,
+            W / 2.0,
+            462.0,
+            12,
+            "middle",
+            "open simplex t1+t2+t3 = 1, t > 0 (barycentric); edges are not in the cone",
+        );
+    } else {
+        let lab = |i: usize| {
+            let others: Vec<String> = (0..3)
+                .filter(|&j| j != i)
+                .map(|j| format!("t{}", j + 1))
+                .collect();
+            format!("t{} = {s3:.4}, {} = 0", i + 1, others.join(" = "))
+        };
+        text(out, va.0, va.1 - 10.0, 13, "middle", &lab(0));
+        text(out, vb.0 - 10.0, vb.1 + 18.0, 13, "middle", &lab(1));
+        text(out, vc.0 + 10.0, vc.1 + 18.0, 13, "middle", &lab(2));
+        let frozen: Vec<String> = (3..m)
+            .map(|i| format!("t{} = {:.4}", i + 1, base[i]))
+            .collect();
+        let through = if mark.is_some() {
+            "the certified point"
+        } else {
+            "the barycentre"
+        };
+        text(
+            out,
+            W / 2.0,
+            462.0,
+            12,
+            "middle",
+            &format!(
+                "2-d slice through {through} (Σt = 1): t1+t2+t3 = {s3:.4}, {}",
+                frozen.join(", ")
+            ),
+        );
+    }
+    if m == 3 {
+        draw_boxes(out, result, &proj);
+    }
+    let n = 120usize;
+    let bary = |i: usize, j: usize| {
+        let a = i as f64 / n as f64;
+        let b = j as f64 / n as f64;
+        [a, b, (1.0 - a - b).max(0.0)]
+    };
+    for (ai, mat) in mats.iter().enumerate() {
+        let col = COLOURS[ai % COLOURS.len()];
+        let scale = mat.iter().flatten().fold(0.0f64, |s, v| s.max(v.abs()));
+        if scale == 0.0 {
+            continue;
+        }
+        let val = |b: [f64; 3]| float_quad(mat, &point(b)) / scale;
+        let mut path = String::new();
+        for i in 0..n {
+            for j in 0..n - i {
+                let mut tris = vec![[bary(i, j), bary(i + 1, j), bary(i, j + 1)]];
+                if i + j + 2 <= n {
+                    tris.push([bary(i + 1, j), bary(i + 1, j + 1), bary(i, j + 1)]);
+                }
+                for tri in tris {
+                    let v: Vec<f64> = tri.iter().map(|&b| val(b)).collect();
+                    let mut pts = Vec::new();
+                    for (p, q) in [(0, 1), (1, 2), (2, 0)] {
+                        if (v[p] < 0.0) != (v[q] < 0.0) {
+                            let s = v[p] / (v[p] - v[q]);
+                            let b: [f64; 3] =
+                                std::array::from_fn(|k| tri[p][k] + s * (tri[q][k] - tri[p][k]));
+                            pts.push(proj(b));
+                        }
+                    }
+                    if pts.len() == 2 {
+                        let _ = write!(
+                            path,
+                            "M{:.1} {:.1}L{:.1} {:.1}",
+                            pts[0].0, pts[0].1, pts[1].0, pts[1].1
+                        );
+                    }
+                }
+            }
+        }
+        if !path.is_empty() {
+            // Earlier bundles are drawn wider so coinciding loci stay visible.
+            let width = 1.8 + 2.2 * (mats.len() - 1 - ai) as f64;
+            let _ = writeln!(
+                out,
+                r#"<path d="{path}" fill="none" stroke="{col}" stroke-width="{width:.1}" stroke-linecap="round"/>"#
+            );
+        }
+    }
+    if let Some((t, label)) = mark {
+        let b = [t[0] / s3, t[1] / s3, t[2] / s3];
+        let (x, y) = proj(b);
+        let _ = writeln!(
+            out,
+            r#"<circle cx="{x:.1}" cy="{y:.1}" r="7" fill="none" stroke="black" stroke-width="2"/>"#
+        );
+        let _ = writeln!(
+            out,
+            r#"<circle cx="{x:.1}" cy="{y:.1}" r="2" fill="black"/>"#
+        );
+        text(out, W / 2.0, 482.0, 12, "middle", &format!("◯ {label}"));
+    }
+}
