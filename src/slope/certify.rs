@@ -785,13 +785,70 @@ impl System {
 
     /// Newton from each start; every approximate zero is handed to the exact
     /// certifiers (rounding, rational line, Krawczyk).
+    /// Gauss–Newton in logarithmic coordinates `t = exp(y)` on the
+    /// scale-free residuals `μ_e(t) / (Σ t)^2`: positivity is automatic and
+    /// small coordinates move proportionally (zeros close to the boundary).
+    fn newton_log(&self, start: &[f64]) -> Option<Vec<f64>> {
+        let m = self.m;
+        let mut y: Vec<f64> = start.iter().map(|v| v.max(1e-300).ln()).collect();
+        for _ in 0..300 {
+            let t: Vec<f64> = y.iter().map(|v| v.exp()).collect();
+            let sum: f64 = t.iter().sum();
+            if !sum.is_finite() || sum <= 0.0 {
+                return None;
+            }
+            let mut f = Vec::new();
+            let mut jac = Vec::new();
+            for &e in &self.basis {
+                let mu = fquad(&self.fmats[e], &t);
+                let g = fmatvec(&self.fmats[e], &t);
+                f.push(mu / (sum * sum));
+                jac.push(
+                    (0..m)
+                        .map(|i| t[i] * (2.0 * g[i] / (sum * sum) - 2.0 * mu / (sum * sum * sum)))
+                        .collect::<Vec<f64>>(),
+                );
+            }
+            let res = f.iter().fold(0.0f64, |a, b| a.max(b.abs()));
+            if res < 1e-15 {
+                return Some(t.iter().map(|v| v / sum).collect());
+            }
+            let mut a = vec![vec![0.0; m]; m];
+            let mut g = vec![0.0; m];
+            for (row, fv) in jac.iter().zip(&f) {
+                for i in 0..m {
+                    g[i] += row[i] * fv;
+                    for j in 0..m {
+                        a[i][j] += row[i] * row[j];
+                    }
+                }
+            }
+            let tr: f64 = (0..m).map(|i| a[i][i]).sum();
+            for i in 0..m {
+                a[i][i] += 1e-12 * tr + 1e-300;
+            }
+            let step = fsolve(a, g)?;
+            let big = step.iter().fold(0.0f64, |a, b| a.max(b.abs()));
+            let damp = if big > 2.0 { 2.0 / big } else { 1.0 };
+            for i in 0..m {
+                y[i] -= damp * step[i];
+            }
+            let mean = y.iter().sum::<f64>() / m as f64;
+            y.iter_mut().for_each(|v| *v -= mean);
+            if y.iter().any(|v| !v.is_finite() || v.abs() > 600.0) {
+                return None;
+            }
+        }
+        None
+    }
+
     fn search_candidates(&self, starts: Vec<Vec<f64>>) -> Verdict {
         let mut found: Vec<Vec<f64>> = Vec::new();
         let mut zeros_cache: Option<Vec<Vec<BigRational>>> = None;
         for mut start in starts {
             let sum: f64 = start.iter().sum();
             start.iter_mut().for_each(|v| *v /= sum);
-            let Some(t) = self.newton_full(&start) else {
+            let Some(t) = self.newton_full(&start).or_else(|| self.newton_log(&start)) else {
                 continue;
             };
             let mx = t.iter().fold(0.0f64, |a, &b| a.max(b));

@@ -306,21 +306,30 @@ impl std::error::Error for SlopeError {}
 /// every bundle has `m` entries, at least one bundle. Favourable assumption:
 /// the Kähler cone is the open positive orthant.
 ///
-/// Strategy, cheapest first: (1) sign obstruction (some `±M_a` entrywise
-/// `>= 0`, non-zero), then the same for combinations `Σ λ_a M_a` (candidate
-/// `λ` vanish on `q-1` matrix entries, `q` = rank of the span); (2) exact evaluation at small positive integer points;
-/// (3) damped Gauss–Newton in floats from deterministic random starts, then
-/// for each approximate zero: rational rounding checked exactly, the
-/// rational-line construction through a known rational zero of a single
-/// quadric (a line through a rational zero meets the quadric again at a
-/// rational point), and a Krawczyk test in exact rational interval
-/// arithmetic on a square subsystem (a basis of the span of the slope forms;
-/// the remaining coordinates pinned to rationals); (4) exclusion by
-/// bisection of the charts `t^j = 1`, `0 <= t^i <= 1`.
+/// Strategy, cheapest first:
+/// 1. sign obstruction: some `±M_a` entrywise `>= 0` and non-zero; then the
+///    same for a combination `Σ λ_a M_a` (candidate `λ` vanish on `q - 1`
+///    matrix entries, `q` = dimension of the span of the `M_a`);
+/// 2. exact evaluation at `grid_points` small primitive positive integer points;
+/// 3. damped Gauss–Newton in floats (in `t`, and in `log t` for zeros close
+///    to the boundary) from `newton_starts` deterministic starts; for each
+///    approximate zero: small-denominator rounding checked exactly; if
+///    `q = 1`, the rational-line construction (a rational line through a
+///    rational zero `P` of the quadric meets it again at the rational
+///    parameter `s = -2B(P,v)/Q(v)`; aim `v` at the approximate zero); then a
+///    Krawczyk test in exact rational interval arithmetic on the square
+///    system formed by a basis of the span (`equations`), solving for the `q`
+///    coordinates chosen by pivoting on the Jacobian (`free`) with the other
+///    `m - q` pinned to positive rationals (`fixed`); needs `q <= m - 1`;
+/// 4. exclusion by bisection of the charts `t^j = 1`, `0 <= t^i <= 1`, each
+///    box excluded by a slope (or combination) positive on box ∩ open cone;
+///    if a box cannot be excluded, Newton is re-run from points just inside
+///    the cone near that box (a branch of zeros may leave a boundary zero).
 ///
 /// Cost: `O(r m^2)` big-rational operations per evaluated point or box;
 /// dominated by at most `grid_points + max_boxes` such evaluations plus
-/// `newton_starts` small float solves.
+/// `newton_starts` small float solves (`O(m^3)` each iteration); typically
+/// 1–60 ms for `m = 4`, `r = 5` (release build).
 ///
 /// Errors: [`SlopeError`] for malformed input only; an unsettled question is
 /// `Ok(SlopeZero::Undecided { .. })`.
@@ -438,11 +447,11 @@ fn ser_mat<S: Serializer>(x: &[Vec<BigRational>], s: S) -> Result<S::Ok, S::Erro
 }
 
 fn ser_one<S: Serializer>(x: &usize, s: S) -> Result<S::Ok, S::Error> {
-    s.serialize_u64(*x as u64 + 1)
+    s.serialize_u64((*x as u64).saturating_add(1))
 }
 
 fn ser_idx<S: Serializer>(x: &[usize], s: S) -> Result<S::Ok, S::Error> {
-    let v: Vec<usize> = x.iter().map(|i| i + 1).collect();
+    let v: Vec<usize> = x.iter().map(|i| i.saturating_add(1)).collect();
     v.serialize(s)
 }
 
@@ -456,7 +465,7 @@ fn ser_fixed<S: Serializer>(x: &[(usize, BigRational)], s: S) -> Result<S::Ok, S
     let v: Vec<FixedOut> = x
         .iter()
         .map(|(i, q)| FixedOut {
-            coordinate: i + 1,
+            coordinate: i.saturating_add(1),
             value: q.to_string(),
         })
         .collect();

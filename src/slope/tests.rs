@@ -327,6 +327,46 @@ fn boundary_only_zero_is_never_exists() {
 }
 
 #[test]
+fn zero_branch_leaving_a_boundary_vertex_is_found() {
+    // All slopes vanish at the vertex e4; the tangent directions of the two
+    // quadrics there meet in (5, 1, 3, *) > 0, so a branch of common zeros
+    // enters the open cone.
+    let d = p1_4();
+    let b = vec![vec![2, -1, 0, 3], vec![-3, 0, 2, 2], vec![1, 1, -2, -5]];
+    let res = run(&d, &b);
+    assert_eq!(res.status(), "exists");
+}
+
+/// P1^6 with three equations of degree (1,…,1): d_rst = 6 for distinct r,s,t.
+fn p1_6() -> Vec<Vec<Vec<i64>>> {
+    (0..6)
+        .map(|r| {
+            (0..6)
+                .map(|s| {
+                    (0..6)
+                        .map(|t| if r != s && s != t && r != t { 6 } else { 0 })
+                        .collect()
+                })
+                .collect()
+        })
+        .collect()
+}
+
+#[test]
+fn m6_krawczyk() {
+    let d = p1_6();
+    let b = vec![
+        vec![0, 3, 1, 3, -1, -1],
+        vec![0, -1, -2, 2, -1, 2],
+        vec![0, -2, 1, -5, 2, -1],
+    ];
+    let res = run(&d, &b);
+    assert_eq!(res.status(), "exists");
+    let s = plot_kahler_cone_svg(&d, &b, &res);
+    check_svg(&s);
+}
+
+#[test]
 fn combination_obstruction_json_and_tamper() {
     let d = toy_d123();
     let b = vec![vec![1, -1, 1], vec![-1, 1, 1]];
