@@ -134,3 +134,34 @@ pub fn analyse(
         slope_zero,
     })
 }
+
+/// The slopes `μ(L_a)(t)` at a user-supplied Kähler point, exactly.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct KahlerPointCheck {
+    /// The point `t` (rationals as strings).
+    pub point: Vec<String>,
+    /// `μ(L_a)(t) = d_{rst} k_a^r t^s t^t` per line bundle (rationals as strings).
+    pub slopes: Vec<String>,
+    /// Every slope vanishes at `t`.
+    pub all_slopes_zero: bool,
+}
+
+/// Evaluate every slope exactly at `t` (precondition: a threefold, `t.len() = m`).
+pub fn kahler_point_check(
+    triple: &[Vec<Vec<i64>>],
+    bundles: &BundleSum,
+    t: &[num_rational::BigRational],
+) -> Result<KahlerPointCheck, AnalysisError> {
+    let mut slopes = Vec::with_capacity(bundles.rank());
+    for k in bundles.bundles() {
+        slopes.push(
+            crate::slope::try_slope_exact(triple, k, t)
+                .map_err(|e| AnalysisError::Slope(format!("{e:?}")))?,
+        );
+    }
+    Ok(KahlerPointCheck {
+        point: t.iter().map(ToString::to_string).collect(),
+        all_slopes_zero: slopes.iter().all(num_traits::Zero::is_zero),
+        slopes: slopes.iter().map(ToString::to_string).collect(),
+    })
+}

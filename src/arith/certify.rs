@@ -316,6 +316,29 @@ mod tests {
     }
 
     #[test]
+    fn certificate_needs_chinese_remaindering_for_large_entries() {
+        // Reduced form [[1, 0, 1/b, c/b], [0, 1, ...]] with b about 2^40: one 62-bit prime
+        // cannot reconstruct 1/b (bound about 2^30.5), two primes can (bound about 2^61.5).
+        let b: i64 = (1 << 40) + 15;
+        let c: i64 = (1 << 35) - 3;
+        let m = to_rational(&int_matrix(&[
+            &[b, 0, 1, c],
+            &[0, b, -c, 7],
+            &[b, b, 1 - c, c + 7],
+        ]));
+        assert_eq!(certified_rank(&m, &LARGE_PRIMES[..1]), None);
+        assert_eq!(certified_rank(&m, &LARGE_PRIMES[..2]), Some(2));
+        assert_eq!(rank_exact(&m), 2);
+        assert_eq!(rank_dense_naive(&RationalField, &m), 2);
+    }
+
+    #[test]
+    #[should_panic(expected = "not a prime")]
+    fn multi_modular_rejects_composite_modulus() {
+        let _ = rank_multi_modular(&int_matrix(&[&[1]]), &[15]);
+    }
+
+    #[test]
     fn rank_exact_matches_naive_on_random_rationals() {
         let mut rng = SplitMix(11);
         let qf = RationalField;

@@ -26,12 +26,13 @@ pub fn rref_dense<F: Field>(field: &F, a: &mut [Vec<F::Elem>], ncols: usize) -> 
         for x in a[r].iter_mut() {
             *x = field.mul(x, &inv);
         }
-        for i in 0..nrows {
-            if i != r && !field.is_zero(&a[i][c]) {
-                let f = a[i][c].clone();
-                for j in 0..ncols {
-                    let t = field.mul(&f, &a[r][j]);
-                    a[i][j] = field.sub(&a[i][j], &t);
+        let pivot_row = a[r].clone();
+        for (i, row) in a.iter_mut().enumerate() {
+            if i != r && !field.is_zero(&row[c]) {
+                let f = row[c].clone();
+                for (x, y) in row.iter_mut().zip(&pivot_row) {
+                    let t = field.mul(&f, y);
+                    *x = field.sub(x, &t);
                 }
             }
         }

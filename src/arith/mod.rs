@@ -1,19 +1,25 @@
 //! Exact linear algebra over the prime fields F_p and over the rationals Q.
 //!
-//! Computes ranks, kernels, echelon forms and products of sparse matrices, with dense
-//! textbook twins for cross-checking and multi-modular / exact rank certification.
-//! Invariant kept throughout: sparse vectors are sorted by strictly increasing index and
-//! hold no explicit zeros, and all field elements are canonical, so every answer is exact
-//! (no floating point is used anywhere).
+//! Computes ranks, kernels, echelon forms and products of sparse matrices ([`sparse`]), with
+//! dense textbook twins for cross-checking ([`dense`]) and multi-modular / certified exact
+//! rank over Q ([`certify`]); the scalar fields live in [`field`].
+//! Invariant kept throughout: sparse vectors are sorted by strictly increasing index and hold
+//! no explicit zeros, and all field elements are canonical, so every answer is exact (no
+//! floating point is used anywhere).
 
 pub mod certify;
 pub mod dense;
 pub mod field;
 pub mod sparse;
 
-pub use certify::{ModularRank, rank_exact, rank_multi_modular, rational_reconstruction};
-pub use dense::{kernel_dense_naive, rank_dense_naive};
+pub use certify::{
+    ModularRank, certified_rank, clear_denominators, rank_exact, rank_multi_modular,
+    rational_reconstruction,
+};
+pub use dense::{kernel_dense_naive, rank_dense_naive, rref_dense};
 pub use field::{Field, LARGE_PRIMES, PrimeField, RationalField, ShoupScalar, is_prime_u64};
 pub use sparse::{
-    Echelon, SparseMatrix, SparseVec, echelon, kernel_basis, mat_mul, mat_vec, rank, reduce,
+    Echelon, PivotRows, SparseMatrix, SparseVec, back_substitute, echelon, fully_reduce,
+    is_valid_vec, kernel_basis, kernel_from_reduced, mat_mul, mat_vec, normalize_vec, rank, reduce,
+    sub_scaled_into,
 };

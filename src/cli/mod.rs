@@ -202,6 +202,18 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                 )?),
                 None => None,
             };
+            let kahler = match (
+                inputs.model().and_then(|m| m.kahler_point()),
+                &summary.triple,
+            ) {
+                (Some(t), Some(triple)) => Some(analysis::kahler_point_check(
+                    triple,
+                    &args::bundle_sum(&inputs, None)?,
+                    t,
+                )?),
+                _ => None,
+            }
+            .filter(|_| analysis.is_some());
             if json {
                 let mut report = serde_json::json!({
                     "schema": "sheafwright.report/1",
@@ -211,6 +223,9 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                 });
                 if let Some(a) = &analysis {
                     report["spectrum"] = render::spectrum_json(&inputs, a)?;
+                }
+                if let Some(check) = &kahler {
+                    report["kahler_point"] = serde_json::to_value(check)?;
                 }
                 Ok(render::json_line(&report)?)
             } else {
@@ -225,6 +240,18 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                     "  favourability      {} ({})\n",
                     favourability.status, favourability.reason
                 ));
+                if let Some(k) = &kahler {
+                    out.push_str(&format!(
+                        "  Kähler point t = ({}): slopes ({}) {}\n",
+                        k.point.join(", "),
+                        k.slopes.join(", "),
+                        if k.all_slopes_zero {
+                            "all vanish"
+                        } else {
+                            "do NOT all vanish"
+                        }
+                    ));
+                }
                 match &analysis {
                     Some(a) => out.push_str(&render::spectrum_text(a)),
                     None => out.push_str(
