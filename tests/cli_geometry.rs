@@ -1,25 +1,7 @@
 //! End-to-end tests of the `geometry` and `report` commands: they run the built binary.
 
-use std::process::Command;
-
-fn sheafwright(args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_sheafwright"))
-        .args(args)
-        .current_dir(env!("CARGO_MANIFEST_DIR"))
-        .output()
-        .expect("binary runs");
-    (
-        out.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&out.stdout).into_owned(),
-        String::from_utf8_lossy(&out.stderr).into_owned(),
-    )
-}
-
-fn json(args: &[&str]) -> serde_json::Value {
-    let (code, out, err) = sheafwright(args);
-    assert_eq!(code, 0, "stderr: {err}");
-    serde_json::from_str(&out).expect("one JSON object")
-}
+mod common;
+use common::{assert_refused, json, sheafwright, temp_file};
 
 #[test]
 fn geometry_json_has_the_documented_keys() {
@@ -79,22 +61,6 @@ fn report_runs_on_every_demo_model() {
     }
 }
 
-fn assert_refused(args: &[&str], needle: &str) {
-    let (code, out, err) = sheafwright(args);
-    assert_eq!(code, 2, "args {args:?}: stdout {out} stderr {err}");
-    assert!(err.starts_with("error:") || err.contains("error"), "{err}");
-    assert!(
-        err.to_lowercase().contains(&needle.to_lowercase()),
-        "expected {needle:?} in {err:?}"
-    );
-    assert!(!err.contains("panicked"), "{err}");
-    assert_eq!(
-        err.trim().lines().count(),
-        1,
-        "one-line message expected: {err}"
-    );
-}
-
 #[test]
 fn bad_input_is_refused_cleanly() {
     assert_refused(
@@ -149,9 +115,7 @@ fn bad_input_is_refused_cleanly() {
 
 #[test]
 fn bad_model_files_are_refused_cleanly() {
-    let dir = std::env::temp_dir().join(format!("sheafwright-cli-{}", std::process::id()));
-    std::fs::create_dir_all(&dir).unwrap();
-    let cases: &[(&str, &str)] = &[
+    let cases: &[(&str, &str, &str)] = &[
         ("malformed.toml", "[ambient\ndims = [1]", "malformed TOML"),
         ("unknown.toml", "[ambient]\ndims=[4]\nfoo=1\n[[equations]]\nmultidegree=[5]", "malformed TOML"),
         ("notcy.toml", "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[6]", "not Calabi-Yau"),
@@ -159,22 +123,12 @@ fn bad_model_files_are_refused_cleanly() {
         ("rank.toml", "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\n[bundle]\nline_bundles=[[1],[-1]]", "rank 2"),
         ("poly.toml", "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\npolynomial=\"x1_0^5 + * x1_1\"", "cannot parse polynomial"),
         ("degree.toml", "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\npolynomial=\"x1_0^4*x1_1 + x1_2^4\"", "multidegree"),
-    ]
-    .iter()
-    .map(|(a, b, _)| (*a, *b))
-    .collect::<Vec<_>>();
-    let needles = [
-        "malformed TOML",
-        "malformed TOML",
-        "not Calabi-Yau",
-        "bundle.line_bundles[0]",
-        "rank 2",
-        "cannot parse polynomial",
-        "multidegree",
+        ("zero.toml", "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\npolynomial=\"x1_0^5 - x1_0^5\"", "zero"),
+        ("reducible.toml", "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\npolynomial=\"x1_0^5 + x1_0*x1_1^4\"", "divisible by x1_0"),
+        ("negkahler.toml", "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\n[kahler]\npoint=[\"-1\"]", "kahler.point[0]"),
     ];
-    for ((name, text), needle) in cases.iter().zip(needles) {
-        let path = dir.join(name);
-        std::fs::write(&path, text).unwrap();
-        assert_refused(&["report", path.to_str().unwrap()], needle);
+    for (name, text, needle) in cases {
+        let path = temp_file(name, text);
+        assert_refused(&["report", &path], needle);
     }
 }

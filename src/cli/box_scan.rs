@@ -40,7 +40,7 @@ pub fn run(
         .unwrap_or(u128::MAX);
     if count > MAX_BOX_BUNDLES {
         return Err(UserError(format!(
-            "--box {lo}..{hi} on {m} factors has {count} bundles; the limit is {MAX_BOX_BUNDLES}"
+            "--box {lo}..{hi} is too large: {count} bundles on {m} factors (limit {MAX_BOX_BUNDLES})"
         )));
     }
     if lo.abs().max(hi.abs()) > sheafwright::io::model::MAX_BUNDLE_ENTRY {
