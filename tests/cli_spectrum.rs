@@ -92,8 +92,8 @@ fn bad_input_is_refused_cleanly() {
     let base = ["spectrum", "--ambient", "1,1,1,1", "--equations", "2,2,2,2", "--bundles"];
     assert_refused(&[&base[..], &["1,0,0,-1;-1,0,0,1"]].concat(), "rank");
     assert_refused(&[&base[..], &["1,0,0,-1;-1,0,0,1;0,0,0,0;0,0,0,0;0,0,0,0;0,0,0,0"]].concat(), "rank");
-    assert_refused(&[&base[..], &["1,0,0;-1,0,0,1;0,0,0,0"]].concat(), "");
-    assert_refused(&[&base[..], &["1,0,x,0;-1,0,0,1;0,0,0,0"]].concat(), "");
+    assert_refused(&[&base[..], &["1,0,0;-1,0,0,1;0,0,0,0"]].concat(), "has 3 entries");
+    assert_refused(&[&base[..], &["1,0,x,0;-1,0,0,1;0,0,0,0"]].concat(), "not an integer");
     assert_refused(&["spectrum", "catalogs-demo/tetraquadric-special.toml"], "no line bundles");
     // c1 != 0 is a failed check, not an error.
     let v = json(&[&base[..], &["1,0,0,0;0,0,0,0;0,0,0,0", "--json"]].concat());
