@@ -4,6 +4,9 @@
 //! Data flows one way: model file ([`io`]) → [`geometry::Configuration`] → [`geometry::Geometry`] →
 //! cohomology → spectrum. The library never prints; the `sheafwright` binary parses, calls and renders.
 
+// Tensor formulas such as d_{rst} k^r t^s t^t read best as index loops.
+#![allow(clippy::needless_range_loop)]
+
 pub mod analysis;
 pub mod arith;
 pub mod bundle;

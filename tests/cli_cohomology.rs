@@ -6,12 +6,30 @@ use common::{assert_refused, json, sheafwright, temp_file};
 #[test]
 fn single_bundle_json_contract() {
     // Quintic: h^0(O_X(1)) = 5 (the five coordinates; textbook value, Hübsch, Calabi-Yau Manifolds).
-    let v = json(&["cohomology", "--ambient", "4", "--equations", "5", "--bundle", "1", "--json"]);
+    let v = json(&[
+        "cohomology",
+        "--ambient",
+        "4",
+        "--equations",
+        "5",
+        "--bundle",
+        "1",
+        "--json",
+    ]);
     assert_eq!(v["bundle"], serde_json::json!([1]));
     assert_eq!(v["h"], serde_json::json!([5, 0, 0, 0]));
     assert_eq!(v["index"], 5);
     assert_eq!(v["method"]["kind"], "dimensions");
-    let v = json(&["cohomology", "--ambient", "1,1,1,1", "--equations", "2,2,2,2", "--bundle", "-2,2,2,2", "--json"]);
+    let v = json(&[
+        "cohomology",
+        "--ambient",
+        "1,1,1,1",
+        "--equations",
+        "2,2,2,2",
+        "--bundle",
+        "-2,2,2,2",
+        "--json",
+    ]);
     assert_eq!(v["h"], serde_json::json!([0, 24, 0, 0]));
     assert_eq!(v["method"]["kind"], "ranks");
     assert_eq!(v["method"]["polynomials"], "generic");
@@ -21,18 +39,43 @@ fn single_bundle_json_contract() {
 
 #[test]
 fn box_is_json_lines_and_independent_of_threads() {
-    let args = ["cohomology", "--ambient", "1,1,1,1", "--equations", "2,2,2,2", "--box", "-2..2", "--json"];
+    let args = [
+        "cohomology",
+        "--ambient",
+        "1,1,1,1",
+        "--equations",
+        "2,2,2,2",
+        "--box",
+        "-2..2",
+        "--json",
+    ];
     let (code, one, err) = sheafwright(&[&args[..], &["--threads", "1"]].concat());
     assert_eq!(code, 0, "{err}");
     let (_, two, _) = sheafwright(&[&args[..], &["--threads", "2"]].concat());
     assert_eq!(one, two, "results must not depend on the thread count");
-    let lines: Vec<serde_json::Value> = one.lines().map(|l| serde_json::from_str(l).unwrap()).collect();
+    let lines: Vec<serde_json::Value> = one
+        .lines()
+        .map(|l| serde_json::from_str(l).unwrap())
+        .collect();
     assert_eq!(lines.len(), 625);
     for v in &lines {
-        let h: Vec<i64> = v["h"].as_array().unwrap().iter().map(|x| x.as_i64().unwrap()).collect();
+        let h: Vec<i64> = v["h"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .map(|x| x.as_i64().unwrap())
+            .collect();
         assert_eq!(h[0] - h[1] + h[2] - h[3], v["index"].as_i64().unwrap());
     }
-    let (code, text, _) = sheafwright(&["cohomology", "--ambient", "4", "--equations", "5", "--box", "-1..1"]);
+    let (code, text, _) = sheafwright(&[
+        "cohomology",
+        "--ambient",
+        "4",
+        "--equations",
+        "5",
+        "--box",
+        "-1..1",
+    ]);
     assert_eq!(code, 0);
     assert!(text.contains("P4[5]"));
 }
@@ -45,14 +88,27 @@ fn given_polynomial_changes_the_answer() {
     assert_eq!(given["h"], serde_json::json!([1, 25, 0, 0]));
     assert_eq!(given["method"]["polynomials"], "given");
     assert_eq!(given["method"]["field"], "Q (exact)");
-    let generic = json(&["cohomology", model, "--bundle", "-2,2,2,2", "--mode", "generic", "--json"]);
+    let generic = json(&[
+        "cohomology",
+        model,
+        "--bundle",
+        "-2,2,2,2",
+        "--mode",
+        "generic",
+        "--json",
+    ]);
     assert_eq!(generic["h"], serde_json::json!([0, 24, 0, 0]));
 }
 
 #[test]
 fn representatives_in_json() {
     let v = json(&[
-        "cohomology", "catalogs-demo/tetraquadric-special.toml", "--bundle", "-2,2,2,2", "--representatives", "--json",
+        "cohomology",
+        "catalogs-demo/tetraquadric-special.toml",
+        "--bundle",
+        "-2,2,2,2",
+        "--representatives",
+        "--json",
     ]);
     let reps = v["representatives"].as_array().unwrap();
     assert_eq!(reps.len(), 26);
@@ -68,7 +124,13 @@ fn representatives_in_json() {
 
 #[test]
 fn bad_input_is_refused_cleanly() {
-    let base = ["cohomology", "--ambient", "1,1,1,1", "--equations", "2,2,2,2"];
+    let base = [
+        "cohomology",
+        "--ambient",
+        "1,1,1,1",
+        "--equations",
+        "2,2,2,2",
+    ];
     let with = |extra: &[&'static str]| -> Vec<&'static str> { [&base[..], extra].concat() };
     assert_refused(&with(&["--bundle", "1,2,3"]), "has 3 entries");
     assert_refused(&with(&["--bundle", "1,a,3,4"]), "not an integer");
@@ -78,13 +140,24 @@ fn bad_input_is_refused_cleanly() {
     assert_refused(&with(&["--box", "-900..900"]), "too large");
     assert_refused(&with(&["--bundle", "300,300,300,300"]), "too large");
     assert_refused(&with(&[]), "--bundle");
-    assert_refused(&with(&["--bundle", "0,0,0,0", "--mode", "given"]), "needs a model file");
-    assert_refused(&with(&["--bundle", "0,0,0,0", "--mode", "weird"]), "unknown mode");
+    assert_refused(
+        &with(&["--bundle", "0,0,0,0", "--mode", "given"]),
+        "needs a model file",
+    );
+    assert_refused(
+        &with(&["--bundle", "0,0,0,0", "--mode", "weird"]),
+        "unknown mode",
+    );
     // Two identical cubics in P5: not a complete intersection.
     let p = "x1_0^3 + x1_1^3 + x1_2^3 + x1_3^3 + x1_4^3 + x1_5^3 + x1_0*x1_1*x1_2";
     let path = temp_file(
         "repeated.toml",
-        &format!("[ambient]\ndims=[5]\n[[equations]]\nmultidegree=[3]\npolynomial=\"{p}\"\n[[equations]]\nmultidegree=[3]\npolynomial=\"{p}\"\n"),
+        &format!(
+            "[ambient]\ndims=[5]\n[[equations]]\nmultidegree=[3]\npolynomial=\"{p}\"\n[[equations]]\nmultidegree=[3]\npolynomial=\"{p}\"\n"
+        ),
     );
-    assert_refused(&["cohomology", &path, "--bundle", "3"], "complete intersection");
+    assert_refused(
+        &["cohomology", &path, "--bundle", "3"],
+        "complete intersection",
+    );
 }

@@ -117,15 +117,51 @@ fn bad_input_is_refused_cleanly() {
 fn bad_model_files_are_refused_cleanly() {
     let cases: &[(&str, &str, &str)] = &[
         ("malformed.toml", "[ambient\ndims = [1]", "malformed TOML"),
-        ("unknown.toml", "[ambient]\ndims=[4]\nfoo=1\n[[equations]]\nmultidegree=[5]", "malformed TOML"),
-        ("notcy.toml", "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[6]", "not Calabi-Yau"),
-        ("lengths.toml", "[ambient]\ndims=[1,1,1,1]\n[[equations]]\nmultidegree=[2,2,2,2]\n[bundle]\nline_bundles=[[1,0],[0,1],[-1,-1]]", "bundle.line_bundles[0]"),
-        ("rank.toml", "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\n[bundle]\nline_bundles=[[1],[-1]]", "rank 2"),
-        ("poly.toml", "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\npolynomial=\"x1_0^5 + * x1_1\"", "cannot parse polynomial"),
-        ("degree.toml", "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\npolynomial=\"x1_0^4*x1_1 + x1_2^4\"", "multidegree"),
-        ("zero.toml", "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\npolynomial=\"x1_0^5 - x1_0^5\"", "zero"),
-        ("reducible.toml", "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\npolynomial=\"x1_0^5 + x1_0*x1_1^4\"", "divisible by x1_0"),
-        ("negkahler.toml", "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\n[kahler]\npoint=[\"-1\"]", "kahler.point[0]"),
+        (
+            "unknown.toml",
+            "[ambient]\ndims=[4]\nfoo=1\n[[equations]]\nmultidegree=[5]",
+            "malformed TOML",
+        ),
+        (
+            "notcy.toml",
+            "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[6]",
+            "not Calabi-Yau",
+        ),
+        (
+            "lengths.toml",
+            "[ambient]\ndims=[1,1,1,1]\n[[equations]]\nmultidegree=[2,2,2,2]\n[bundle]\nline_bundles=[[1,0],[0,1],[-1,-1]]",
+            "bundle.line_bundles[0]",
+        ),
+        (
+            "rank.toml",
+            "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\n[bundle]\nline_bundles=[[1],[-1]]",
+            "rank 2",
+        ),
+        (
+            "poly.toml",
+            "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\npolynomial=\"x1_0^5 + * x1_1\"",
+            "cannot parse polynomial",
+        ),
+        (
+            "degree.toml",
+            "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\npolynomial=\"x1_0^4*x1_1 + x1_2^4\"",
+            "multidegree",
+        ),
+        (
+            "zero.toml",
+            "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\npolynomial=\"x1_0^5 - x1_0^5\"",
+            "zero",
+        ),
+        (
+            "reducible.toml",
+            "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\npolynomial=\"x1_0^5 + x1_0*x1_1^4\"",
+            "divisible by x1_0",
+        ),
+        (
+            "negkahler.toml",
+            "[ambient]\ndims=[4]\n[[equations]]\nmultidegree=[5]\n[kahler]\npoint=[\"-1\"]",
+            "kahler.point[0]",
+        ),
     ];
     for (name, text, needle) in cases {
         let path = temp_file(name, text);

@@ -2,6 +2,8 @@
 //! plus published Bott-formula values and internal consistency of the differential (D∘D = 0, fast d_1 equals
 //! the perturbative d_1, lifted classes are cocycles).
 
+#![allow(clippy::needless_range_loop)]
+
 use proptest::prelude::*;
 use sheafwright::arith::{self, LARGE_PRIMES, PrimeField, RationalField};
 use sheafwright::cohomology::complex::{Complex, E1Page};

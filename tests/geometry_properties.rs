@@ -1,5 +1,7 @@
 //! Property tests for the geometry module: laws that hold for every Calabi-Yau complete intersection.
 
+#![allow(clippy::needless_range_loop)]
+
 use num_bigint::BigInt;
 use proptest::prelude::*;
 use sheafwright::geometry::{Configuration, Geometry};

@@ -7,6 +7,8 @@
 //! - "from memory": values recalled by the authors, consistent with the closed forms of MATH.md §1
 //!   (`c2^{rs} = ½[−δ^{rs}(n_r+1) + Σ_j q_j^r q_j^s]`) and with `χ = 2(h^{1,1} − h^{2,1})`.
 
+#![allow(clippy::needless_range_loop)]
+
 use sheafwright::geometry::{Configuration, Geometry};
 
 struct Row {

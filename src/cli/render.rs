@@ -223,7 +223,7 @@ pub fn spectrum_text(a: &sheafwright::analysis::ModelAnalysis) -> String {
         out,
         "\n== Bundle: rank {} ({}) ==",
         s.rank,
-        serde_json::to_value(&s.gauge_group)
+        serde_json::to_value(s.gauge_group)
             .ok()
             .and_then(|v| v.as_str().map(String::from))
             .unwrap_or_default()

@@ -64,7 +64,7 @@ pub fn bott_dimension(dims: &[usize], d: &[i64]) -> Option<(usize, u128)> {
         let n64 = n as i64;
         if di >= 0 {
             dim = dim.saturating_mul(binomial((di + n64) as u64, n as u64));
-        } else if di <= -n64 - 1 {
+        } else if di < -n64 {
             q += n;
             dim = dim.saturating_mul(binomial((-di - 1) as u64, n as u64));
         } else {

@@ -34,7 +34,11 @@ pub fn assert_refused(args: &[&str], needle: &str) {
         "expected {needle:?} in {err:?}"
     );
     assert!(!err.contains("panicked"), "{err}");
-    assert_eq!(err.trim().lines().count(), 1, "one-line message expected: {err}");
+    assert_eq!(
+        err.trim().lines().count(),
+        1,
+        "one-line message expected: {err}"
+    );
 }
 
 /// Write `text` to a fresh temporary file named `name` and return its path.

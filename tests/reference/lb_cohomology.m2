@@ -60,7 +60,7 @@ lbCohomology = (n, qs, eqs, k) -> (
     T := lbKK(monoid[z_0 .. z_(#idx - 1)]);
     phi := map(S, T, zs);
     D := T / ker phi;
-    if lbDebug then << "D " << cpuTime() << endl;
+    if lbDebug then stderr << "D " << cpuTime() << endl;
     phiD := map(S, D, zs);
     -- generators: monomials of degree kp
     gs := flatten entries basis(kp, S);
@@ -100,7 +100,7 @@ lbCohomology = (n, qs, eqs, k) -> (
                 H#a = (if H#?a then H#a else 0_D) + (leadCoefficient tm) * zm));
             pairs H))));
     allrels := lin | eqrels;
-    if lbDebug then << "rels " << cpuTime() << endl;
+    if lbDebug then stderr << "rels " << cpuTime() << endl;
     nr := #allrels;
     ents := flatten apply(nr, c -> apply(allrels#c, pr -> (pr#0, c) => pr#1));
     R := map(D^s, D^nr, ents);
@@ -110,9 +110,9 @@ lbCohomology = (n, qs, eqs, k) -> (
     hp := hilbertPolynomial(P, Projective => false);
     ok := all(20..23, sv -> sub(hp, (ring hp)_0 => sv) == koszulDim(n, qs, kp + sv * one));
     if not ok then error("Hilbert polynomial mismatch: presentation incomplete");
-    if lbDebug then << "hp " << cpuTime() << endl;
+    if lbDebug then stderr << "hp " << cpuTime() << endl;
     Y := Proj D;
     Fs := (sheaf(Y, P))(-t);
     dimX := sum n - #qs;
-    apply(dimX + 1, i -> rank HH^i(Fs))
+    apply(dimX + 1, i -> (hi := rank HH^i(Fs); if lbDebug then stderr << "HH^" << i << " " << cpuTime() << endl; hi))
 );
