@@ -310,3 +310,15 @@ fn cache_returns_identical_results() {
     assert!(std::sync::Arc::ptr_eq(&a, &b));
     assert_eq!(e.cache_len(), n);
 }
+
+#[test]
+fn favourability_certificate() {
+    // The tetra-quadric is favourable (h^{1,1} = 4 = number of factors, [CDLS88]); the Schoen manifold
+    // P2xP2xP1 with equations (3,0,1), (0,3,1) has h^{1,1} = 19 > 3 (from memory) and Euler number 0.
+    let fav = sheafwright::analysis::favourability(&engine(&configs()[1])).unwrap();
+    assert_eq!(fav.status, "favourable");
+    let schoen = Configuration::new(&[2, 2, 1], &[vec![3, 0, 1], vec![0, 3, 1]]).unwrap();
+    assert_eq!(Geometry::new(&schoen).euler(), num_bigint::BigInt::from(0));
+    let fav = sheafwright::analysis::favourability(&engine(&schoen)).unwrap();
+    assert_eq!(fav.status, "not_certified");
+}

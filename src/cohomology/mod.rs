@@ -335,7 +335,7 @@ impl CohomologyEngine {
                         polys: &polys,
                     };
                     for &m in &needs_map {
-                        ranks.insert(m, arith::rank(&field, &cx.differential_matrix(m)));
+                        ranks.insert(m, arith::rank_exact(&cx.differential_matrix(m)));
                     }
                     Method {
                         kind: "ranks".into(),
