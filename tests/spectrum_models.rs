@@ -42,7 +42,11 @@ fn literature_model_spectrum() {
     assert_eq!(s.families, 12);
     assert_eq!(a.slope_zero.status(), "exists");
     let count = |label: &str| -> u64 {
-        s.multiplets.iter().find(|m| m.label == label).map(|m| m.count).unwrap_or_else(|| panic!("{label}"))
+        s.multiplets
+            .iter()
+            .find(|m| m.label == label)
+            .map(|m| m.count)
+            .unwrap_or_else(|| panic!("{label}"))
     };
     assert_eq!(count("10_{2}"), 8);
     assert_eq!(count("10_{5}"), 4);
@@ -69,9 +73,19 @@ fn wedge_two_index_identity_on_models() {
     // For c1(V) = 0 and rank r: χ(∧²V) = (r − 4) χ(V) (HRR; MATH.md §4), with ∧²V = ⊕_{a<b} L_a ⊗ L_b.
     let c = tetraquadric();
     let g = Geometry::new(&c);
-    let mut models: Vec<Vec<Vec<i64>>> = vec![LITERATURE_MODEL.iter().map(|k| k.to_vec()).collect()];
-    for f in ["tetraquadric-a", "tetraquadric-so10", "tetraquadric-e6", "tetraquadric-anomaly"] {
-        let m = Model::load(Path::new(&format!("{}/catalogs-demo/{f}.toml", env!("CARGO_MANIFEST_DIR")))).unwrap();
+    let mut models: Vec<Vec<Vec<i64>>> =
+        vec![LITERATURE_MODEL.iter().map(|k| k.to_vec()).collect()];
+    for f in [
+        "tetraquadric-a",
+        "tetraquadric-so10",
+        "tetraquadric-e6",
+        "tetraquadric-anomaly",
+    ] {
+        let m = Model::load(Path::new(&format!(
+            "{}/catalogs-demo/{f}.toml",
+            env!("CARGO_MANIFEST_DIR")
+        )))
+        .unwrap();
         models.push(m.line_bundles().unwrap().to_vec());
     }
     for bundles in models {
@@ -94,8 +108,11 @@ fn demo_certificates_verify_independently() {
     for entry in std::fs::read_dir(dir).unwrap() {
         let path = entry.unwrap().path();
         let model = Model::load(&path).unwrap();
-        let Some(lbs) = model.line_bundles() else { continue };
-        let engine = CohomologyEngine::new(model.config(), PolynomialChoice::Generic { seed: 1 }).unwrap();
+        let Some(lbs) = model.line_bundles() else {
+            continue;
+        };
+        let engine =
+            CohomologyEngine::new(model.config(), PolynomialChoice::Generic { seed: 1 }).unwrap();
         let sum = BundleSum::new(model.config().num_factors(), lbs.to_vec()).unwrap();
         let a = analyse(&engine, &sum).unwrap();
         assert_ne!(a.slope_zero.status(), "undecided", "{}", path.display());
@@ -115,7 +132,11 @@ fn sign_obstruction_on_hand_made_cases() {
     // A summand with all entries >= 0 (and not all 0) has positive slope on the whole Kähler cone.
     let c = tetraquadric();
     let engine = CohomologyEngine::new(&c, PolynomialChoice::Generic { seed: 1 }).unwrap();
-    let sum = BundleSum::new(4, vec![vec![1, 0, 0, 0], vec![-1, 0, 1, 0], vec![0, 0, -1, 0]]).unwrap();
+    let sum = BundleSum::new(
+        4,
+        vec![vec![1, 0, 0, 0], vec![-1, 0, 1, 0], vec![0, 0, -1, 0]],
+    )
+    .unwrap();
     let a = analyse(&engine, &sum).unwrap();
     assert_eq!(a.slope_zero.status(), "none");
     let v = serde_json::to_value(&a.slope_zero).unwrap();

@@ -116,6 +116,16 @@ impl E1Page {
         })
     }
 
+    /// The group holding coordinate `idx` of degree `m`, and the local index inside it.
+    /// Precondition: `idx < dim E_1^m` (panics otherwise).
+    pub fn locate(&self, m: i64, idx: usize) -> (&E1Group, usize) {
+        let g = self
+            .groups_of_degree(m)
+            .find(|g| idx >= g.offset && idx < g.offset + g.bott.dim())
+            .expect("E1Page::locate: index inside degree m");
+        (g, idx - g.offset)
+    }
+
     /// Groups of total degree `m`, in coordinate order.
     pub fn groups_of_degree(&self, m: i64) -> impl Iterator<Item = &E1Group> {
         self.groups.iter().filter(move |g| g.total_degree == m)
@@ -490,12 +500,8 @@ impl<F: Field> Complex<'_, F> {
         let f = self.field;
         let mut start = Cochain::new();
         for (idx, c) in v {
-            let g = self
-                .page
-                .groups_of_degree(m)
-                .find(|g| *idx >= g.offset && *idx < g.offset + g.bott.dim())
-                .expect("index inside degree m");
-            for (k, val) in self.iota(g, idx - g.offset, c.clone()) {
+            let (g, local) = self.page.locate(m, *idx);
+            for (k, val) in self.iota(g, local, c.clone()) {
                 add_into(f, &mut start, k, val);
             }
         }

@@ -460,21 +460,15 @@ impl CohomologyEngine {
                 if b.pivots.contains(pivot) {
                     continue;
                 }
-                let g = page
-                    .groups_of_degree(q)
-                    .find(|g| *pivot >= g.offset && *pivot < g.offset + g.bott.dim())
-                    .expect("pivot inside degree q");
+                let (g, _) = page.locate(q, *pivot);
                 let bott_terms = row
                     .iter()
                     .map(|(idx, c)| {
-                        let g = page
-                            .groups_of_degree(q)
-                            .find(|g| *idx >= g.offset && *idx < g.offset + g.bott.dim())
-                            .expect("index inside degree q");
+                        let (g, local) = page.locate(q, *idx);
                         BottTerm {
                             koszul: self.koszul_list(g.koszul),
                             q: g.bott.q,
-                            monomial: self.split_monomial(&g.bott.basis[idx - g.offset]),
+                            monomial: self.split_monomial(&g.bott.basis[local]),
                             coefficient: rational_text(c),
                         }
                     })
