@@ -10,7 +10,7 @@
 //! factors, in [`VariableLayout`] order) and `index` maps each back to its position.
 
 use crate::poly::{VariableLayout, compositions};
-use std::collections::HashMap;
+use rustc_hash::FxHashMap as HashMap;
 
 /// Which cohomology a factor contributes: global sections (`H^0`, exponents `≥ 0`) or the top group
 /// (`H^{n_i}`, exponents `≤ −1`).

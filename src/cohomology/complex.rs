@@ -16,7 +16,7 @@
 use super::bott::{BottGroup, FactorKind, bott_group};
 use crate::arith::{Field, SparseMatrix};
 use crate::poly::VariableLayout;
-use std::collections::HashMap;
+use rustc_hash::FxHashMap as HashMap;
 
 /// One non-zero `E_1` group: `H^q(A, O_A(k − q_S))` for the Koszul index set `S` (a bitmask over equations).
 #[derive(Clone, Debug)]
@@ -77,7 +77,7 @@ impl E1Page {
         }
         // Order: by total degree, then p descending, then S.
         groups.sort_by_key(|g| (g.total_degree, std::cmp::Reverse(g.p), g.koszul));
-        let mut degree_dims: HashMap<i64, usize> = HashMap::new();
+        let mut degree_dims: HashMap<i64, usize> = HashMap::default();
         for g in &mut groups {
             let entry = degree_dims.entry(g.total_degree).or_insert(0);
             g.offset = *entry;
@@ -223,7 +223,7 @@ impl<F: Field> Complex<'_, F> {
                 })
                 .collect();
         }
-        let mut out = Cochain::with_capacity(faces_list.len());
+        let mut out = Cochain::with_capacity_and_hasher(faces_list.len(), Default::default());
         for faces in faces_list {
             out.insert(
                 CechKey {
@@ -240,7 +240,7 @@ impl<F: Field> Complex<'_, F> {
     /// The perturbation `t = (−1)^q d_K`, `d_K(e_S) = Σ_{pos} (−1)^{pos} p_j e_{S∖j}`.
     pub fn t(&self, x: &Cochain<F::Elem>) -> Cochain<F::Elem> {
         let f = self.field;
-        let mut out = Cochain::new();
+        let mut out = Cochain::default();
         for (key, c) in x {
             let q = Self::cech_degree(&key.faces);
             let mut pos = 0;
@@ -273,7 +273,7 @@ impl<F: Field> Complex<'_, F> {
     pub fn h(&self, x: &Cochain<F::Elem>) -> Cochain<F::Elem> {
         let f = self.field;
         let m = self.layout.dims().len();
-        let mut out = Cochain::new();
+        let mut out = Cochain::default();
         for (key, c) in x {
             let neg: Vec<u64> = (0..m)
                 .map(|i| self.negative_support(&key.exps, i))
@@ -337,7 +337,7 @@ impl<F: Field> Complex<'_, F> {
     /// The Čech differential `δ = Σ_i (−1)^{q_1+…+q_{i−1}} δ_i`, `δ_i[I] = Σ_{l∉I} σ(l, I)[I∪{l}]`.
     pub fn delta(&self, x: &Cochain<F::Elem>) -> Cochain<F::Elem> {
         let f = self.field;
-        let mut out = Cochain::new();
+        let mut out = Cochain::default();
         for (key, c) in x {
             let mut sign_degree = 0usize;
             for i in 0..key.faces.len() {
@@ -498,7 +498,7 @@ impl<F: Field> Complex<'_, F> {
     /// cocycle of the total differential `δ + t`.
     pub fn lift(&self, m: i64, v: &[(usize, F::Elem)]) -> Cochain<F::Elem> {
         let f = self.field;
-        let mut start = Cochain::new();
+        let mut start = Cochain::default();
         for (idx, c) in v {
             let (g, local) = self.page.locate(m, *idx);
             for (k, val) in self.iota(g, local, c.clone()) {

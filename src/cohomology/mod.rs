@@ -167,6 +167,9 @@ pub struct CohomologyEngine {
     layout: VariableLayout,
     choice: PolynomialChoice,
     polys: Vec<Polynomial>,
+    /// The polynomials reduced modulo each of [`LARGE_PRIMES`] (`None` where a denominator vanishes mod p),
+    /// converted once so that each bundle costs only its own linear algebra.
+    modular_polys: Vec<(PrimeField, Option<FieldPolys<u64>>)>,
     cache: Mutex<HashMap<Vec<i64>, Arc<LineBundleCohomology>>>,
 }
 
@@ -218,11 +221,20 @@ impl CohomologyEngine {
                 p.clone()
             }
         };
+        let modular_polys = LARGE_PRIMES
+            .iter()
+            .map(|&p| {
+                let field = PrimeField::new(p).expect("LARGE_PRIMES are prime");
+                let reduced = to_field_polys(&field, &polys);
+                (field, reduced)
+            })
+            .collect();
         Ok(CohomologyEngine {
             config: config.clone(),
             layout,
             choice,
             polys,
+            modular_polys,
             cache: Mutex::new(HashMap::new()),
         })
     }
@@ -351,20 +363,20 @@ impl CohomologyEngine {
                 PolynomialChoice::Generic { .. } => {
                     let mut used = Vec::new();
                     let mut per_prime: Vec<HashMap<i64, usize>> = Vec::new();
-                    for &p in LARGE_PRIMES.iter() {
-                        let field = PrimeField::new(p).expect("prime");
-                        let Some(polys) = to_field_polys(&field, &self.polys) else {
+                    for (field, reduced) in &self.modular_polys {
+                        let Some(polys) = reduced else {
                             continue;
                         };
+                        let p = field.modulus();
                         let cx = Complex {
-                            field: &field,
+                            field,
                             layout: &self.layout,
                             page: &page,
-                            polys: &polys,
+                            polys,
                         };
                         let r: HashMap<i64, usize> = needs_map
                             .iter()
-                            .map(|&m| (m, arith::rank(&field, &cx.differential_matrix(m))))
+                            .map(|&m| (m, arith::rank(field, &cx.differential_matrix(m))))
                             .collect();
                         used.push(p);
                         per_prime.push(r);
