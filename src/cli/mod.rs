@@ -45,6 +45,9 @@ enum Command {
         /// Include a basis of each cohomology group with its type and lifted Čech–Koszul representative.
         #[arg(long)]
         representatives: bool,
+        /// Print the computation time (excluding start-up and output) on stderr.
+        #[arg(long)]
+        timing: bool,
         /// Worker threads for --box (default: all cores); results never depend on it.
         #[arg(long)]
         threads: Option<usize>,
@@ -132,6 +135,7 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
             bundle,
             box_range,
             representatives,
+            timing,
             threads,
             json,
         } => {
@@ -140,7 +144,14 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
             match (bundle, box_range) {
                 (Some(b), None) => {
                     let k = args::parse_bundle(&b, inputs.config().num_factors(), "--bundle")?;
+                    let started = std::time::Instant::now();
                     let result = engine.cohomology(&k)?;
+                    if timing {
+                        eprintln!(
+                            "timing: cohomology computed in {:.1} µs",
+                            started.elapsed().as_secs_f64() * 1e6
+                        );
+                    }
                     let reps = if representatives {
                         Some(engine.representatives(&k)?)
                     } else {
