@@ -56,6 +56,18 @@ proptest! {
     }
 
     #[test]
+    fn bott_dimension_formula_matches_enumerated_basis(
+        dims in prop::collection::vec(1usize..=3, 1..=3), d in prop::collection::vec(-7i64..=5, 3)
+    ) {
+        // The closed Bott/Künneth count (fast) against the enumerated monomial basis (slow twin).
+        let d = &d[..dims.len()];
+        let layout = VariableLayout::new(&dims);
+        let counted = bott_dimension(&dims, d);
+        let listed = sheafwright::cohomology::bott::bott_group(&layout, d);
+        prop_assert_eq!(counted.map(|(q, n)| (q, n as usize)), listed.map(|g| (g.q, g.dim())));
+    }
+
+    #[test]
     fn permuting_identical_factors(raw in prop::collection::vec(-3i64..=3, 4), seed in 0u64..24) {
         // P1^4 with (2,2,2,2) is symmetric under permuting the four factors (common practice).
         let c = &configs()[1];
