@@ -138,6 +138,7 @@ fn bad_input_is_refused_cleanly() {
     assert_refused(&with(&["--box", "-3..x"]), "not a range");
     assert_refused(&with(&["--box", "3..-3"]), "empty range");
     assert_refused(&with(&["--box", "-900..900"]), "too large");
+    assert_refused(&with(&["--box", "-9223372036854775808..0"]), "must lie in");
     assert_refused(&with(&["--bundle", "300,300,300,300"]), "too large");
     assert_refused(&with(&[]), "--bundle");
     assert_refused(

@@ -34,6 +34,12 @@ pub fn run(
     json: bool,
 ) -> Result<String, UserError> {
     let m = config.num_factors();
+    let limit = sheafwright::io::model::MAX_BUNDLE_ENTRY;
+    if lo < -limit || hi > limit {
+        return Err(UserError(format!(
+            "--box {lo}..{hi}: entries must lie in -{limit}..{limit}"
+        )));
+    }
     let width = (hi - lo + 1) as u128;
     let count = (0..m)
         .try_fold(1u128, |a, _| a.checked_mul(width))
@@ -41,11 +47,6 @@ pub fn run(
     if count > MAX_BOX_BUNDLES {
         return Err(UserError(format!(
             "--box {lo}..{hi} is too large: {count} bundles on {m} factors (limit {MAX_BOX_BUNDLES})"
-        )));
-    }
-    if lo.abs().max(hi.abs()) > sheafwright::io::model::MAX_BUNDLE_ENTRY {
-        return Err(UserError(format!(
-            "--box {lo}..{hi}: entries must lie in -1000..1000"
         )));
     }
     let count = count as usize;
