@@ -13,13 +13,12 @@
 pub mod bott;
 pub mod complex;
 
-use crate::arith::{self, Field, LARGE_PRIMES, PrimeField, RationalField, SparseMatrix, SparseVec};
+use crate::arith::{self, Field, LARGE_PRIMES, PrimeField, RationalField, SparseVec};
 use crate::geometry::Configuration;
 use crate::poly::{Polynomial, VariableLayout};
 use complex::{Cochain, Complex, E1Page, FieldPolys, koszul_degree};
-use num_bigint::BigInt;
 use num_rational::BigRational;
-use num_traits::{One, ToPrimitive};
+use num_traits::One;
 use serde::Serialize;
 use std::collections::HashMap;
 use std::sync::{Arc, Mutex};
@@ -532,37 +531,4 @@ impl CohomologyEngine {
             .collect();
         (terms, truncated)
     }
-}
-
-/// `χ` from a result as a `BigInt` (convenience for comparisons with the HRR index).
-pub fn index_of(result: &LineBundleCohomology) -> BigInt {
-    BigInt::from(result.index)
-}
-
-/// Convert `h` to `i64` values (convenience for callers that mix with signed arithmetic).
-pub fn h_as_i64(result: &LineBundleCohomology) -> Vec<i64> {
-    result
-        .h
-        .iter()
-        .map(|&x| x.to_i64().unwrap_or(i64::MAX))
-        .collect()
-}
-
-/// The matrix of `D: E_1^m → E_1^{m+1}` over a prime field, for tests and diagnostics.
-pub fn differential_matrix_mod_p(
-    engine: &CohomologyEngine,
-    k: &[i64],
-    m: i64,
-    p: u64,
-) -> Option<SparseMatrix<u64>> {
-    let field = PrimeField::new(p)?;
-    let page = E1Page::new(&engine.layout, engine.config.equations(), k);
-    let polys = to_field_polys(&field, &engine.polys)?;
-    let cx = Complex {
-        field: &field,
-        layout: &engine.layout,
-        page: &page,
-        polys: &polys,
-    };
-    Some(cx.differential_matrix(m))
 }
