@@ -479,16 +479,7 @@ impl System {
         triple: &[Vec<Vec<i64>>],
         bundles: &[Vec<i64>],
     ) -> Result<System, SlopeError> {
-        let m = triple.len();
-        if m == 0 {
-            return Err(SlopeError::EmptyIntersection);
-        }
-        if triple
-            .iter()
-            .any(|p| p.len() != m || p.iter().any(|row| row.len() != m))
-        {
-            return Err(SlopeError::NotCubic { expected: m });
-        }
+        let m = super::check_cubic(triple)?;
         for r in 0..m {
             for s in 0..m {
                 for u in 0..m {
@@ -1285,24 +1276,9 @@ impl System {
         for k in 0..data.first()?.len() {
             cols.push(data.iter().map(|d| big_to_rat(&d[k])).collect());
         }
-        for (x, &i) in free.iter().enumerate() {
-            for &j in &free[x..] {
-                cols.push(
-                    self.basis
-                        .iter()
-                        .map(|&a| big_to_rat(&self.mats[a][i][j]))
-                        .collect(),
-                );
-            }
-        }
+        cols.extend(self.upper_triangle_columns(&free));
         for lam in vertex_combinations(&cols, self.basis.len(), 150) {
-            let terms: Vec<(usize, BigInt)> = self
-                .basis
-                .iter()
-                .zip(lam)
-                .filter(|(_, c)| !c.is_zero())
-                .map(|(&a, c)| (a, c))
-                .collect();
+            let terms = self.basis_terms(lam);
             if !terms.is_empty() && positive_on_box(&self.combo_matrix(&terms), b) {
                 return Some(terms);
             }
@@ -1310,12 +1286,11 @@ impl System {
         None
     }
 
-    /// A combination `Σ λ_a M_a` that is entrywise `>= 0` and non-zero.
-    fn combination_obstruction(&self) -> Option<Vec<(usize, BigInt)>> {
-        let m = self.m;
-        let mut cols: Vec<Vec<BigRational>> = Vec::new();
-        for i in 0..m {
-            for j in i..m {
+    /// One column per entry `(i, j)`, `i <= j` taken from `coords`, holding `(M_a)_{ij}` for every basis bundle.
+    fn upper_triangle_columns(&self, coords: &[usize]) -> Vec<Vec<BigRational>> {
+        let mut cols = Vec::new();
+        for (x, &i) in coords.iter().enumerate() {
+            for &j in &coords[x..] {
                 cols.push(
                     self.basis
                         .iter()
@@ -1324,14 +1299,25 @@ impl System {
                 );
             }
         }
+        cols
+    }
+
+    /// Pair the coefficients `lam` with the basis bundles, dropping zero coefficients.
+    fn basis_terms(&self, lam: Vec<BigInt>) -> Vec<(usize, BigInt)> {
+        self.basis
+            .iter()
+            .zip(lam)
+            .filter(|(_, c)| !c.is_zero())
+            .map(|(&a, c)| (a, c))
+            .collect()
+    }
+
+    /// A combination `Σ λ_a M_a` that is entrywise `>= 0` and non-zero.
+    fn combination_obstruction(&self) -> Option<Vec<(usize, BigInt)>> {
+        let all: Vec<usize> = (0..self.m).collect();
+        let cols = self.upper_triangle_columns(&all);
         for lam in vertex_combinations(&cols, self.basis.len(), 3000) {
-            let terms: Vec<(usize, BigInt)> = self
-                .basis
-                .iter()
-                .zip(lam)
-                .filter(|(_, c)| !c.is_zero())
-                .map(|(&a, c)| (a, c))
-                .collect();
+            let terms = self.basis_terms(lam);
             if !terms.is_empty()
                 && Self::sign_of_matrix(&self.combo_matrix(&terms)) == Some(Sign::Positive)
             {

@@ -382,12 +382,8 @@ pub fn slope_exact(triple: &[Vec<Vec<i64>>], k: &[i64], t: &[BigRational]) -> Bi
 }
 
 /// Like [`slope_exact`] but reports malformed shapes as a [`SlopeError`].
-/// Does not require symmetry of `triple`. Cost: `O(m^3)`.
-pub fn try_slope_exact(
-    triple: &[Vec<Vec<i64>>],
-    k: &[i64],
-    t: &[BigRational],
-) -> Result<BigRational, SlopeError> {
+/// Check that `triple` is a non-empty `m × m × m` array and return `m`.
+pub(super) fn check_cubic(triple: &[Vec<Vec<i64>>]) -> Result<usize, SlopeError> {
     let m = triple.len();
     if m == 0 {
         return Err(SlopeError::EmptyIntersection);
@@ -398,6 +394,16 @@ pub fn try_slope_exact(
     {
         return Err(SlopeError::NotCubic { expected: m });
     }
+    Ok(m)
+}
+
+/// Does not require symmetry of `triple`. Cost: `O(m^3)`.
+pub fn try_slope_exact(
+    triple: &[Vec<Vec<i64>>],
+    k: &[i64],
+    t: &[BigRational],
+) -> Result<BigRational, SlopeError> {
+    let m = check_cubic(triple)?;
     if k.len() != m {
         return Err(SlopeError::BundleLength {
             bundle: 0,
