@@ -278,6 +278,17 @@ impl CohomologyEngine {
     }
 
     /// `h^•(X, O_X(k))`, memoised.
+    ///
+    /// ```
+    /// use sheafwright::cohomology::{CohomologyEngine, PolynomialChoice};
+    /// use sheafwright::geometry::Configuration;
+    /// let tetra = Configuration::new(&[1, 1, 1, 1], &[vec![2, 2, 2, 2]]).unwrap();
+    /// let engine = CohomologyEngine::new(&tetra, PolynomialChoice::Generic { seed: 1 }).unwrap();
+    /// let r = engine.cohomology(&[-2, 2, 2, 2]).unwrap();
+    /// assert_eq!(r.h, vec![0, 24, 0, 0]);
+    /// assert_eq!(r.index, -24);
+    /// assert_eq!(r.method.kind, "ranks");
+    /// ```
     pub fn cohomology(&self, k: &[i64]) -> Result<Arc<LineBundleCohomology>, CohomologyError> {
         if let Some(hit) = self.cache.lock().ok().and_then(|c| c.get(k).cloned()) {
             return Ok(hit);

@@ -90,6 +90,17 @@ impl Configuration {
     /// Check and build a configuration: `dims[i] = n_i ≥ 1`, each equation a length-`m` vector of non-negative,
     /// not all zero degrees, `dim X ≥ 1`, the Calabi-Yau condition, and the size limits above.
     /// Factors are 1-based in error messages, equations too.
+    ///
+    /// ```
+    /// use sheafwright::geometry::{Configuration, Geometry};
+    /// // The quintic threefold: d = 5, c2·J = 50, Euler number −200.
+    /// let quintic = Configuration::new(&[4], &[vec![5]]).unwrap();
+    /// let g = Geometry::new(&quintic);
+    /// assert_eq!(g.triple_intersections().unwrap(), vec![vec![vec![5]]]);
+    /// assert_eq!(g.c2_dot_j().unwrap(), vec![50]);
+    /// assert_eq!(g.euler(), (-200).into());
+    /// assert!(Configuration::new(&[4], &[vec![4]]).is_err()); // not Calabi-Yau
+    /// ```
     pub fn new(dims: &[i64], equations: &[Vec<i64>]) -> Result<Self, ConfigError> {
         if dims.is_empty() {
             return Err(ConfigError::NoFactors);

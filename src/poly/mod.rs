@@ -174,6 +174,15 @@ impl Polynomial {
     }
 
     /// Parse the text syntax for the given variable layout.
+    ///
+    /// ```
+    /// use sheafwright::poly::{Polynomial, VariableLayout};
+    /// let layout = VariableLayout::new(&[1, 1]);
+    /// let p = Polynomial::parse("x1_0^2*x2_1 - 3/2*x1_1^2*x2_0", &layout).unwrap();
+    /// assert_eq!(p.num_terms(), 2);
+    /// assert!(p.check_equation(&layout, &[2, 1]).is_ok());
+    /// assert!(Polynomial::parse("x1_0 +", &layout).is_err());
+    /// ```
     pub fn parse(text: &str, layout: &VariableLayout) -> Result<Self, PolyError> {
         Parser::new(text, layout).parse()
     }
