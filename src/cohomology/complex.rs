@@ -397,11 +397,31 @@ impl<F: Field> Complex<'_, F> {
 
     /// `A ι(v) = Σ_{r≥0} (−t h)^r t ι(v)` as a list of cochains `[t ι v, (−th) t ι v, …]`, stopping at zero.
     fn perturbation_series(&self, start: Cochain<F::Elem>) -> Vec<Cochain<F::Elem>> {
+        self.series(start, false)
+    }
+
+    /// The series of [`Complex::perturbation_series`]; with `only_projected`, terms that cannot survive `π`
+    /// are dropped early: an `h`-output with `|S| = 1` is followed by a last `t` (which keeps faces), so it
+    /// can only reach `E_1` when every face is `{0}` or the full simplex and `E_1` has a group at `S = ∅`.
+    /// The projections `π` of the returned terms are unchanged; the cochains themselves are not (use the
+    /// unpruned series for lifts).
+    fn series(&self, start: Cochain<F::Elem>, only_projected: bool) -> Vec<Cochain<F::Elem>> {
         let f = self.field;
+        let m = self.layout.dims().len();
+        let has_empty_group = self.page.group(0).is_some();
         let mut terms = Vec::new();
         let mut cur = self.t(&start);
         while !cur.is_empty() {
-            let next = self.t(&self.h(&cur));
+            let mut hx = self.h(&cur);
+            if only_projected {
+                hx.retain(|key, _| {
+                    key.koszul.count_ones() != 1
+                        || (has_empty_group
+                            && (0..m)
+                                .all(|i| key.faces[i] == 1 || key.faces[i] == self.full_mask(i)))
+                });
+            }
+            let next = self.t(&hx);
             terms.push(cur);
             cur = next.into_iter().map(|(k, v)| (k, f.neg(&v))).collect();
         }
@@ -417,7 +437,7 @@ impl<F: Field> Complex<'_, F> {
         local: usize,
         skip_d1: bool,
     ) -> Vec<(usize, F::Elem)> {
-        let series = self.perturbation_series(self.iota(g, local, self.field.one()));
+        let series = self.series(self.iota(g, local, self.field.one()), true);
         let mut out = Vec::new();
         for (r, term) in series.iter().enumerate() {
             if skip_d1 && r == 0 {
