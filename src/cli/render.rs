@@ -231,9 +231,9 @@ pub fn spectrum_text(a: &sheafwright::analysis::ModelAnalysis) -> String {
     for (i, lb) in a.line_bundles.iter().enumerate() {
         let _ = writeln!(
             out,
-            "  L_{} = O_X({:<12}) h = {:<14} ({})",
+            "  L_{} = {:<18} h = {:<14} ({})",
             i + 1,
-            join(&lb.bundle, ","),
+            format!("O_X({})", join(&lb.bundle, ",")),
             join(&lb.h, " "),
             lb.method.kind
         );
@@ -309,11 +309,11 @@ pub fn spectrum_text(a: &sheafwright::analysis::ModelAnalysis) -> String {
     for mlt in s.multiplets.iter().filter(|m| m.present) {
         let _ = writeln!(
             out,
-            "  {:<16} {:>5}  ({:<14}) ({:<16}) {}",
+            "  {:<16} {:>5}  {:<16} {:<18} {}",
             mlt.label,
             mlt.count,
-            join(&mlt.line_bundle, ","),
-            join(&mlt.charge, ","),
+            format!("({})", join(&mlt.line_bundle, ",")),
+            format!("({})", join(&mlt.charge, ",")),
             join(&mlt.h, " ")
         );
     }
