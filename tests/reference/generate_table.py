@@ -38,7 +38,7 @@ GROUPS = {
     "p6_223":   [("6", "2;2;3", "generic", (k,)) for k in range(-2, 3)],
     "p7_2222":  [("7", "2;2;2;2", "generic", (k,)) for k in range(-2, 3)],
     # P1xP4: (1,-1), (-1,1), (0,1) exceeded a 200 s cap with the proj method, so they are left out
-    "p1p4":     [("1,4", "1,1;1,4", "generic", k) for k in [(0,0),(1,0)]],
+    "p1p4":     [("1,4", "1,1;1,4", "generic", k) for k in [(0,0),(1,0),(1,-1)]],
     "p1_4":     [("1,1,1,1", "2,2,2,2", "generic", k) for k in P1_4],
     "p2p2":     [("2,2", "3,3", "generic", k) for k in P2P2],
     "p2p3":     [("2,3", "2,1;1,3", "generic", k) for k in P2P3],
