@@ -214,6 +214,13 @@ fn pass(b: bool) -> &'static str {
     if b { "pass" } else { "FAIL" }
 }
 
+/// An exact integer or rational as plain text (`12`, `-5/2`).
+fn exact_text(x: &sheafwright::bundle::Exact) -> String {
+    serde_json::to_value(x)
+        .map(|v| v.to_string().trim_matches('"').to_string())
+        .unwrap_or_default()
+}
+
 /// Consistency, slope certificate and spectrum as text.
 pub fn spectrum_text(a: &sheafwright::analysis::ModelAnalysis) -> String {
     let s = &a.spectrum;
@@ -245,26 +252,9 @@ pub fn spectrum_text(a: &sheafwright::analysis::ModelAnalysis) -> String {
         pass(c.c1.passed),
         join(&c.c1.c1, ",")
     );
-    let c2b: Vec<String> = s
-        .c2_bundle
-        .iter()
-        .map(|x| {
-            serde_json::to_value(x)
-                .map(|v| v.to_string().trim_matches('"').to_string())
-                .unwrap_or_default()
-        })
-        .collect();
+    let c2b: Vec<String> = s.c2_bundle.iter().map(exact_text).collect();
     let _ = writeln!(out, "  c2(V).J_r            ({})", c2b.join(", "));
-    let five: Vec<String> = c
-        .anomaly
-        .five_brane
-        .iter()
-        .map(|x| {
-            serde_json::to_value(x)
-                .map(|v| v.to_string().trim_matches('"').to_string())
-                .unwrap_or_default()
-        })
-        .collect();
+    let five: Vec<String> = c.anomaly.five_brane.iter().map(exact_text).collect();
     let _ = writeln!(
         out,
         "  anomaly c2(TX)-c2(V) {}   ({}) >= 0 componentwise (favourable case)",

@@ -202,24 +202,30 @@ fn f2q(x: f64) -> Option<BigRational> {
     BigRational::from_float(x)
 }
 
-/// Scales a positive rational vector to a primitive integer vector (same ray).
-fn primitive(t: &[BigRational]) -> Vec<BigRational> {
+/// The primitive integer vector on the ray of `v` (clear denominators, divide by the gcd), or `None` for the
+/// zero vector.
+fn primitive_integers(v: &[BigRational]) -> Option<Vec<BigInt>> {
     let mut l = BigInt::one();
-    for q in t {
+    for q in v {
         l = l.lcm(q.denom());
     }
-    let ints: Vec<BigInt> = t
+    let ints: Vec<BigInt> = v
         .iter()
         .map(|q| (q * big_to_rat(&l)).to_integer())
         .collect();
     let mut g = BigInt::zero();
-    for v in &ints {
-        g = g.gcd(v);
+    for x in &ints {
+        g = g.gcd(x);
     }
-    if g.is_zero() {
-        return t.to_vec();
+    (!g.is_zero()).then(|| ints.iter().map(|x| x / &g).collect())
+}
+
+/// Scales a positive rational vector to a primitive integer vector (same ray).
+fn primitive(t: &[BigRational]) -> Vec<BigRational> {
+    match primitive_integers(t) {
+        Some(ints) => ints.iter().map(big_to_rat).collect(),
+        None => t.to_vec(),
     }
-    ints.iter().map(|v| big_to_rat(&(v / &g))).collect()
 }
 
 /// A dyadic box of a chart: coordinate `i` ranges over
@@ -423,24 +429,9 @@ fn vertex_combinations(cols: &[Vec<BigRational>], q: usize, cap: usize) -> Vec<V
     let mut count = 0;
     loop {
         let rows: Vec<Vec<BigRational>> = idx.iter().map(|&i| nz[i].clone()).collect();
-        if let Some(v) = null_vector(&rows, q) {
-            let mut l = BigInt::one();
-            for x in &v {
-                l = l.lcm(x.denom());
-            }
-            let ints: Vec<BigInt> = v
-                .iter()
-                .map(|x| (x * big_to_rat(&l)).to_integer())
-                .collect();
-            let mut g = BigInt::zero();
-            for x in &ints {
-                g = g.gcd(x);
-            }
-            if !g.is_zero() {
-                let ints: Vec<BigInt> = ints.iter().map(|x| x / &g).collect();
-                out.push(ints.iter().map(|x| -x).collect());
-                out.push(ints);
-            }
+        if let Some(ints) = null_vector(&rows, q).and_then(|v| primitive_integers(&v)) {
+            out.push(ints.iter().map(|x| -x).collect());
+            out.push(ints);
         }
         count += 1;
         if count >= cap {
