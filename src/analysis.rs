@@ -4,7 +4,7 @@
 //! Invariant: every figure here is computed by the specialised modules; this module only wires them together
 //! (the cohomology engine is the single source of `h^q` values, shared through its cache).
 
-use crate::bundle::{BundleError, BundleSum, spectrum::Spectrum};
+use crate::bundle::{BundleError, BundleSum, Exact, spectrum::Spectrum};
 use crate::cohomology::{CohomologyEngine, CohomologyError, LineBundleCohomology};
 use crate::geometry::{Geometry, GeometrySummary};
 use crate::slope::{SlopeOptions, SlopeZero, certify_slope_zero};
@@ -138,10 +138,10 @@ pub fn analyse(
 /// The slopes `μ(L_a)(t)` at a user-supplied Kähler point, exactly.
 #[derive(Clone, Debug, PartialEq, Eq, Serialize)]
 pub struct KahlerPointCheck {
-    /// The point `t` (rationals as strings).
-    pub point: Vec<String>,
-    /// `μ(L_a)(t) = d_{rst} k_a^r t^s t^t` per line bundle (rationals as strings).
-    pub slopes: Vec<String>,
+    /// The point `t` (each entry a JSON integer when integral, else a string `"p/q"`).
+    pub point: Vec<Exact>,
+    /// `μ(L_a)(t) = d_{rst} k_a^r t^s t^t` per line bundle (integer or `"p/q"` string, as `point`).
+    pub slopes: Vec<Exact>,
     /// Every slope vanishes at `t`.
     pub all_slopes_zero: bool,
 }
@@ -160,8 +160,100 @@ pub fn kahler_point_check(
         );
     }
     Ok(KahlerPointCheck {
-        point: t.iter().map(ToString::to_string).collect(),
+        point: t.iter().map(Exact::from_rational).collect(),
         all_slopes_zero: slopes.iter().all(num_traits::Zero::is_zero),
-        slopes: slopes.iter().map(ToString::to_string).collect(),
+        slopes: slopes.iter().map(Exact::from_rational).collect(),
     })
+}
+
+/// The Hodge numbers `h^{1,1}` and `h^{2,1}` of a Calabi-Yau threefold, where they follow from what was
+/// certified, with how they were obtained.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct HodgeNumbers {
+    /// `h^{1,1}(X)`, or null when not computable here.
+    pub h11: Option<u64>,
+    /// `h^{2,1}(X)`, or null when not computable here.
+    pub h21: Option<u64>,
+    /// How the numbers were obtained, or why they were not.
+    pub provenance: String,
+}
+
+/// Hodge numbers from the favourability certificate and the exact Euler number: a favourable Calabi-Yau
+/// threefold has `h^{1,1} = m`, and `χ = 2 (h^{1,1} − h^{2,1})` gives `h^{2,1} = h^{1,1} − χ/2` (textbook, e.g.
+/// Hübsch, "Calabi-Yau manifolds"). Otherwise both are `None` with the reason.
+pub fn hodge_numbers(geometry: &GeometrySummary, favourability: &Favourability) -> HodgeNumbers {
+    let none = |why: &str| HodgeNumbers {
+        h11: None,
+        h21: None,
+        provenance: why.to_string(),
+    };
+    if geometry.dimension != 3 || !geometry.calabi_yau {
+        return none("not computed: only for Calabi-Yau threefolds");
+    }
+    if favourability.status != "favourable" {
+        return none(
+            "not computed: favourability is not certified, so h^(1,1) may exceed the number of ambient factors",
+        );
+    }
+    let m = geometry.ambient.len() as i64;
+    let chi = geometry.euler;
+    if chi % 2 != 0 {
+        return none("not computed: the Euler number is odd (inconsistent input)");
+    }
+    let h21 = m - chi / 2;
+    match u64::try_from(h21) {
+        Ok(h21) => HodgeNumbers {
+            h11: Some(m as u64),
+            h21: Some(h21),
+            provenance: format!(
+                "h^(1,1) = m = {m} by the favourability certificate; h^(2,1) = h^(1,1) - chi/2 = {m} - ({chi})/2 = {h21} from the exact Euler number"
+            ),
+        },
+        Err(_) => none("not computed: h^(1,1) - chi/2 is negative (inconsistent input)"),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::cohomology::{DEFAULT_SEED, PolynomialChoice};
+    use crate::geometry::Configuration;
+
+    fn hodge_of(dims: &[usize], eqs: &[Vec<u32>]) -> HodgeNumbers {
+        let config = Configuration::new(dims, eqs).unwrap();
+        let engine =
+            CohomologyEngine::new(&config, PolynomialChoice::Generic { seed: DEFAULT_SEED }).unwrap();
+        let fav = favourability(&engine).unwrap();
+        hodge_numbers(&Geometry::new(&config).summary(), &fav)
+    }
+
+    #[test]
+    fn hodge_numbers_of_favourable_cicys_match_published_values() {
+        // (h^{1,1}, h^{2,1}) from memory; these configurations are in the CICY list of Candelas, Dale, Lütken and
+        // Schimmrigk, Nucl. Phys. B298 (1988) 493.
+        let cases: [(&[usize], Vec<Vec<u32>>, u64, u64); 5] = [
+            (&[4], vec![vec![5]], 1, 101),                  // quintic
+            (&[5], vec![vec![3], vec![3]], 1, 73),          // two cubics in P5
+            (&[1, 1, 1, 1], vec![vec![2, 2, 2, 2]], 4, 68), // tetra-quadric
+            (&[2, 2], vec![vec![3, 3]], 2, 83),             // bicubic
+            (&[1, 3], vec![vec![2, 4]], 2, 86),             // P1xP3[2,4]
+        ];
+        for (dims, eqs, h11, h21) in cases {
+            let h = hodge_of(dims, &eqs);
+            assert_eq!((h.h11, h.h21), (Some(h11), Some(h21)), "{dims:?} {eqs:?}");
+            assert!(h.provenance.contains("favourability certificate"));
+        }
+    }
+
+    #[test]
+    fn hodge_numbers_need_certified_favourability() {
+        let config = Configuration::new(&[1, 1, 1, 1], &[vec![2, 2, 2, 2]]).unwrap();
+        let fav = Favourability {
+            status: "not_certified".into(),
+            reason: "test".into(),
+        };
+        let h = hodge_numbers(&Geometry::new(&config).summary(), &fav);
+        assert_eq!((h.h11, h.h21), (None, None));
+        assert!(h.provenance.contains("not certified"));
+    }
 }

@@ -125,23 +125,32 @@ pub struct SectionsCheck {
 
 /// All consistency checks of a line bundle sum.
 ///
-/// The first keys (`rank`, `c1_zero`, `c2_bundle`, `anomaly_ok`, `index`,
-/// `families`) are the summary; the remaining keys hold each check in full.
+/// The first fields (`rank`, `gauge_group`, `c1_zero`, `c2_bundle`,
+/// `anomaly_ok`, `index`, `families`) are the summary; they are not
+/// serialised, because the spectrum object that embeds this one carries the
+/// same figures at its top level. The remaining keys hold each check in full.
 #[derive(Debug, Clone, PartialEq, Eq, Serialize)]
 pub struct Consistency {
     /// Rank `r`.
+    #[serde(skip_serializing)]
     pub rank: usize,
     /// GUT group.
+    #[serde(skip_serializing)]
     pub gauge_group: GaugeGroup,
     /// `c1(V) = 0`.
+    #[serde(skip_serializing)]
     pub c1_zero: bool,
     /// `c2(V)_r`.
+    #[serde(skip_serializing)]
     pub c2_bundle: Vec<Exact>,
     /// The anomaly bound holds.
+    #[serde(skip_serializing)]
     pub anomaly_ok: bool,
     /// `χ(V)`.
+    #[serde(skip_serializing)]
     pub index: i64,
     /// `−χ(V)/symmetry_order`.
+    #[serde(skip_serializing)]
     pub families: i64,
     /// Every check that was run passed.
     pub all_passed: bool,

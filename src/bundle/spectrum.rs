@@ -15,7 +15,11 @@
 //!   `−χ(V)` on the covering space;
 //! * vector-like pairs: a present multiplet and a present multiplet of the
 //!   conjugate representation whose charges add up to a multiple of
-//!   `(1,…,1)`, so that a mass term for them is allowed by the `U(1)`s;
+//!   `(1,…,1)`, so that a mass term for them is allowed by the `U(1)`s
+//!   (`vector_like_pairs` lists such multiplet pairs, singlets included);
+//!   `vector_like_field_pairs` counts *fields*: for each non-singlet GUT
+//!   representation and its conjugate, `Σ min(count, count')` over those
+//!   pairs (e.g. 3 pairs of `5`–`5bar`);
 //! * Higgs candidates: SU(5) has them when some `5bar` and some `5` are
 //!   present; the listed pairs are the vector-like `5bar_{ab}`/`5_{ab}` pairs
 //!   (same `a,b`). SO(10) has them when some `10` is present; the listed
@@ -85,6 +89,20 @@ pub struct MultipletPair {
     pub pairs: u64,
 }
 
+/// The number of vector-like field pairs of one GUT representation and its conjugate.
+#[derive(Debug, Clone, PartialEq, Eq, Serialize)]
+pub struct RepresentationPairs {
+    /// The representation, e.g. `"5"` (the one without `bar`; for a real representation such as the `10` of
+    /// SO(10) both names are the same).
+    pub representation: String,
+    /// Its conjugate, e.g. `"5bar"`.
+    pub conjugate: String,
+    /// `Σ min(count, count')` over the charge-compatible multiplet pairs of these representations.
+    pub field_pairs: u64,
+    /// The multiplet pairs counted, as `"first/second"` labels.
+    pub multiplet_pairs: Vec<String>,
+}
+
 /// Flags for a model builder; see the module documentation for definitions.
 #[derive(Debug, Clone, PartialEq, Eq, Serialize)]
 pub struct SpectrumFlags {
@@ -102,6 +120,8 @@ pub struct SpectrumFlags {
     pub net_families_match: bool,
     /// Vector-like pairs among present multiplets (singlets included).
     pub vector_like_pairs: Vec<MultipletPair>,
+    /// Vector-like field pairs per non-singlet GUT representation (see module docs), in table order.
+    pub vector_like_field_pairs: Vec<RepresentationPairs>,
     /// Higgs candidates exist (see module docs).
     pub higgs_candidates_present: bool,
     /// Vector-like Higgs pairs.
@@ -278,6 +298,36 @@ fn vector_like(multiplets: &[Multiplet]) -> Result<Vec<MultipletPair>, BundleErr
     Ok(out)
 }
 
+/// Group the non-singlet vector-like multiplet pairs by representation and count fields.
+fn field_pairs(multiplets: &[Multiplet], pairs: &[MultipletPair]) -> Vec<RepresentationPairs> {
+    let mut out: Vec<RepresentationPairs> = Vec::new();
+    for p in pairs {
+        let (a, b) = (&multiplets[p.first], &multiplets[p.second]);
+        if a.role == Role::Singlet || b.role == Role::Singlet {
+            continue;
+        }
+        let (rep, conj) = if a.kind.ends_with("bar") {
+            (&b.kind, &a.kind)
+        } else {
+            (&a.kind, &b.kind)
+        };
+        let label = format!("{}/{}", p.first_label, p.second_label);
+        match out.iter_mut().find(|r| &r.representation == rep) {
+            Some(r) => {
+                r.field_pairs = r.field_pairs.saturating_add(p.pairs);
+                r.multiplet_pairs.push(label);
+            }
+            None => out.push(RepresentationPairs {
+                representation: rep.clone(),
+                conjugate: conj.clone(),
+                field_pairs: p.pairs,
+                multiplet_pairs: vec![label],
+            }),
+        }
+    }
+    out
+}
+
 fn flags(
     multiplets: &[Multiplet],
     index: i64,
@@ -291,6 +341,7 @@ fn flags(
         .ok_or_else(|| BundleError::Overflow("−χ(V)".into()))?;
 
     let vector_like_pairs = vector_like(multiplets)?;
+    let vector_like_field_pairs = field_pairs(multiplets, &vector_like_pairs);
     let higgs_pairs: Vec<MultipletPair> = vector_like_pairs
         .iter()
         .filter(|p| {
@@ -321,6 +372,7 @@ fn flags(
         net_families_expected,
         net_families_match: net_families == net_families_expected,
         vector_like_pairs,
+        vector_like_field_pairs,
         higgs_candidates_present,
         higgs_pairs,
         exotic_chiral_excess,

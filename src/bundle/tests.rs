@@ -488,6 +488,22 @@ fn spectrum_json_shape() {
     }
     assert_eq!(json["rank"], 5);
     assert_eq!(json["gauge_group"], "SU(5)");
+    // The summary figures appear once, at the top level, not again inside `consistency`.
+    for key in [
+        "rank",
+        "gauge_group",
+        "c1_zero",
+        "c2_bundle",
+        "anomaly_ok",
+        "index",
+        "families",
+    ] {
+        assert!(
+            json["consistency"].get(key).is_none(),
+            "consistency repeats {key}"
+        );
+    }
+    assert!(json["consistency"].get("anomaly").is_some());
     // Branching order: the (1,24) singlets come first, then 10, 10bar, 5bar, 5.
     assert_eq!(json["multiplets"][0]["kind"], "1");
     let m = &json["multiplets"][20];

@@ -5,6 +5,7 @@
 mod args;
 mod box_scan;
 mod render;
+mod report;
 
 use args::{ConfigArgs, Inputs};
 use clap::{Parser, Subcommand};
@@ -197,80 +198,9 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                     &inputs, &analysis,
                 )?)?)
             } else {
-                Ok(render::spectrum_text(&analysis))
+                Ok(report::spectrum_text(&analysis))
             }
         }
-        Command::Report { model, json } => {
-            let inputs = Inputs::from_model_path(&model)?;
-            let engine = args::PolyArgs::default().engine(&inputs)?;
-            let geometry = Geometry::new(inputs.config());
-            let summary = geometry.summary();
-            let favourability = analysis::favourability(&engine)?;
-            let analysis = match inputs.model().and_then(|m| m.line_bundles()) {
-                Some(_) => Some(analysis::analyse(
-                    &engine,
-                    &args::bundle_sum(&inputs, None)?,
-                )?),
-                None => None,
-            };
-            let kahler = match (
-                inputs.model().and_then(|m| m.kahler_point()),
-                &summary.triple,
-            ) {
-                (Some(t), Some(triple)) => Some(analysis::kahler_point_check(
-                    triple,
-                    &args::bundle_sum(&inputs, None)?,
-                    t,
-                )?),
-                _ => None,
-            }
-            .filter(|_| analysis.is_some());
-            if json {
-                let mut report = serde_json::json!({
-                    "schema": "sheafwright.report/1",
-                    "model": inputs.name(),
-                    "geometry": summary,
-                    "favourability": favourability,
-                });
-                if let Some(a) = &analysis {
-                    report["spectrum"] = render::spectrum_json(&inputs, a)?;
-                }
-                if let Some(check) = &kahler {
-                    report["kahler_point"] = serde_json::to_value(check)?;
-                }
-                Ok(render::json_line(&report)?)
-            } else {
-                let mut out = String::new();
-                out.push_str(&format!("Model: {}\n", inputs.name()));
-                if let Some(notes) = inputs.model().and_then(|m| m.notes.as_deref()) {
-                    out.push_str(&format!("Notes: {}\n", notes.trim()));
-                }
-                out.push_str("\n== Geometry ==\n");
-                out.push_str(&render::geometry_table(&summary));
-                out.push_str(&format!(
-                    "  favourability      {} ({})\n",
-                    favourability.status, favourability.reason
-                ));
-                if let Some(k) = &kahler {
-                    out.push_str(&format!(
-                        "  Kähler point t = ({}): slopes ({}) {}\n",
-                        k.point.join(", "),
-                        k.slopes.join(", "),
-                        if k.all_slopes_zero {
-                            "all vanish"
-                        } else {
-                            "do NOT all vanish"
-                        }
-                    ));
-                }
-                match &analysis {
-                    Some(a) => out.push_str(&render::spectrum_text(a)),
-                    None => out.push_str(
-                        "\n(no [bundle] section: consistency checks and spectrum skipped)\n",
-                    ),
-                }
-                Ok(out)
-            }
-        }
+        Command::Report { model, json } => report::run(&model, json),
     }
 }

@@ -11,7 +11,7 @@ pub fn json_line<T: Serialize>(value: &T) -> Result<String, serde_json::Error> {
     Ok(s)
 }
 
-fn join<T: ToString>(v: &[T], sep: &str) -> String {
+pub fn join<T: ToString>(v: &[T], sep: &str) -> String {
     v.iter()
         .map(ToString::to_string)
         .collect::<Vec<_>>()
@@ -22,9 +22,7 @@ fn join<T: ToString>(v: &[T], sep: &str) -> String {
 pub fn geometry_table(g: &GeometrySummary) -> String {
     let mut out = String::new();
     let _ = writeln!(out, "  configuration      {}", g.configuration);
-    let _ = writeln!(out, "  ambient dims       {}", join(&g.ambient, ","));
-    let eqs: Vec<String> = g.equations.iter().map(|q| join(q, ",")).collect();
-    let _ = writeln!(out, "  equations          {}", eqs.join(" ; "));
+    configuration_matrix(g, &mut out);
     let _ = writeln!(out, "  dim X              {}", g.dimension);
     let _ = writeln!(
         out,
@@ -82,6 +80,34 @@ pub fn geometry_table(g: &GeometrySummary) -> String {
         }
     }
     out
+}
+
+/// The configuration matrix in the trade's convention: one row per ambient factor, one column per equation.
+fn configuration_matrix(g: &GeometrySummary, out: &mut String) {
+    let k = g.equations.len();
+    let width = g
+        .equations
+        .iter()
+        .flatten()
+        .map(|d| d.to_string().len())
+        .max()
+        .unwrap_or(1)
+        .max(k.to_string().len());
+    let cols: Vec<String> = (1..=k).map(|j| format!("{j:>width$}")).collect();
+    let _ = writeln!(
+        out,
+        "  configuration matrix (rows: ambient factors, columns: equations)"
+    );
+    let lead = g.ambient.iter().map(|n| format!("P{n}").len()).max().unwrap_or(2);
+    let _ = writeln!(out, "    {:<lead$}   {}", "", cols.join(" "));
+    for (i, n) in g.ambient.iter().enumerate() {
+        let row: Vec<String> = g
+            .equations
+            .iter()
+            .map(|q| format!("{:>width$}", q[i]))
+            .collect();
+        let _ = writeln!(out, "    {:<lead$} | {}", format!("P{n}"), row.join(" "));
+    }
 }
 
 /// One bundle's cohomology as text.
@@ -196,7 +222,7 @@ pub fn cohomology_row(r: &sheafwright::cohomology::LineBundleCohomology) -> Stri
 }
 
 /// The `spectrum` JSON object: the spectrum's keys at top level plus `slope_zero`, `favourability`,
-/// `line_bundles`, `configuration` and `model`.
+/// `line_bundles`, `configuration`, `model` and `multiplet_table_meaningful`.
 pub fn spectrum_json(
     inputs: &super::args::Inputs,
     a: &sheafwright::analysis::ModelAnalysis,
@@ -207,156 +233,7 @@ pub fn spectrum_json(
     v["slope_zero"] = serde_json::to_value(&a.slope_zero)?;
     v["favourability"] = serde_json::to_value(&a.favourability)?;
     v["line_bundles"] = serde_json::to_value(&a.line_bundles)?;
+    // The GUT multiplet table assumes an S(U(n)) bundle; with c1(V) != 0 `multiplets` and `flags` do not apply.
+    v["multiplet_table_meaningful"] = a.spectrum.c1_zero.into();
     Ok(v)
-}
-
-fn pass(b: bool) -> &'static str {
-    if b { "pass" } else { "FAIL" }
-}
-
-/// An exact integer or rational as plain text (`12`, `-5/2`).
-fn exact_text(x: &sheafwright::bundle::Exact) -> String {
-    serde_json::to_value(x)
-        .map(|v| v.to_string().trim_matches('"').to_string())
-        .unwrap_or_default()
-}
-
-/// Consistency, slope certificate and spectrum as text.
-pub fn spectrum_text(a: &sheafwright::analysis::ModelAnalysis) -> String {
-    let s = &a.spectrum;
-    let c = &s.consistency;
-    let mut out = String::new();
-    let _ = writeln!(
-        out,
-        "\n== Bundle: rank {} ({}) ==",
-        s.rank,
-        serde_json::to_value(s.gauge_group)
-            .ok()
-            .and_then(|v| v.as_str().map(String::from))
-            .unwrap_or_default()
-    );
-    for (i, lb) in a.line_bundles.iter().enumerate() {
-        let _ = writeln!(
-            out,
-            "  L_{} = {:<18} h = {:<14} ({})",
-            i + 1,
-            format!("O_X({})", join(&lb.bundle, ",")),
-            join(&lb.h, " "),
-            lb.method.kind
-        );
-    }
-    let _ = writeln!(out, "\n== Consistency ==");
-    let _ = writeln!(
-        out,
-        "  c1(V) = 0            {}   c1 = ({})",
-        pass(c.c1.passed),
-        join(&c.c1.c1, ",")
-    );
-    let c2b: Vec<String> = s.c2_bundle.iter().map(exact_text).collect();
-    let _ = writeln!(out, "  c2(V).J_r            ({})", c2b.join(", "));
-    let five: Vec<String> = c.anomaly.five_brane.iter().map(exact_text).collect();
-    let _ = writeln!(
-        out,
-        "  anomaly c2(TX)-c2(V) {}   ({}) >= 0 componentwise (favourable case)",
-        pass(s.anomaly_ok),
-        five.join(", ")
-    );
-    let _ = writeln!(
-        out,
-        "  index chi(V)         {}   families -chi(V) = {}",
-        s.index, s.families
-    );
-    if let Some(sec) = &c.sections {
-        let _ = writeln!(
-            out,
-            "  h^0(V) = h^0(V*) = 0 {}   h^0(V) = {}, h^0(V*) = {}",
-            pass(sec.passed),
-            sec.h0_v,
-            sec.h0_v_dual
-        );
-    }
-    let _ = writeln!(out, "  slope-zero locus     {}", a.slope_zero.status());
-    if let Ok(v) = serde_json::to_value(&a.slope_zero) {
-        let detail = v
-            .get("certificate")
-            .or_else(|| v.get("reason"))
-            .map(|d| d.to_string())
-            .unwrap_or_default();
-        let short: String = detail.chars().take(300).collect();
-        let _ = writeln!(
-            out,
-            "    {}{}",
-            short,
-            if detail.len() > 300 { " …" } else { "" }
-        );
-    }
-    let _ = writeln!(out, "\n== Spectrum (multiplets with count > 0) ==");
-    let _ = writeln!(
-        out,
-        "  {:<16} {:>5}  {:<16} {:<18} h",
-        "multiplet", "count", "line bundle", "charge"
-    );
-    for mlt in s.multiplets.iter().filter(|m| m.present) {
-        let _ = writeln!(
-            out,
-            "  {:<16} {:>5}  {:<16} {:<18} {}",
-            mlt.label,
-            mlt.count,
-            format!("({})", join(&mlt.line_bundle, ",")),
-            format!("({})", join(&mlt.charge, ",")),
-            join(&mlt.h, " ")
-        );
-    }
-    let f = &s.flags;
-    let _ = writeln!(out, "\n== Flags ==");
-    let _ = writeln!(
-        out,
-        "  net families {} (expected -chi(V) = {}): {}",
-        f.net_families,
-        f.net_families_expected,
-        if f.net_families_match {
-            "match"
-        } else {
-            "MISMATCH"
-        }
-    );
-    let _ = writeln!(
-        out,
-        "  anti-families: {} ({} multiplets)",
-        if f.anti_families_present {
-            "present"
-        } else {
-            "none"
-        },
-        f.anti_family_count
-    );
-    let _ = writeln!(out, "  vector-like pairs: {}", f.vector_like_pairs.len());
-    let _ = writeln!(
-        out,
-        "  Higgs pair candidates: {}{}",
-        if f.higgs_candidates_present {
-            "yes"
-        } else {
-            "no"
-        },
-        if f.higgs_pairs.is_empty() {
-            String::new()
-        } else {
-            format!(
-                " ({})",
-                f.higgs_pairs
-                    .iter()
-                    .map(|p| format!("{}/{}", p.first_label, p.second_label))
-                    .collect::<Vec<_>>()
-                    .join(", ")
-            )
-        }
-    );
-    let _ = writeln!(
-        out,
-        "  exotics: {} (chiral excess {})",
-        if f.exotics_present { "present" } else { "none" },
-        f.exotic_chiral_excess
-    );
-    out
 }

@@ -248,20 +248,29 @@ impl Configuration {
         }
     }
 
-    /// A short text form, e.g. `P1xP1xP1xP1[2,2,2,2]` or `P5[3;3]`.
+    /// A one-line label in the configuration-matrix convention, one row per ambient factor, each row led by its
+    /// factor so that it cannot be read transposed: `[P1|2, P1|2, P1|2, P1|2]` (one equation of multidegree
+    /// (2,2,2,2)), `[P5|3 3]` (two cubics in P5), `[P2|2 1, P3|1 3]` (row `Pn|` lists that factor's degree in
+    /// each equation, equations in order).
     pub fn label(&self) -> String {
-        let amb: Vec<String> = self.dims.iter().map(|n| format!("P{n}")).collect();
-        let eqs: Vec<String> = self
-            .equations
+        let rows: Vec<String> = self
+            .matrix_rows()
             .iter()
-            .map(|q| {
-                q.iter()
-                    .map(|d| d.to_string())
-                    .collect::<Vec<_>>()
-                    .join(",")
+            .zip(&self.dims)
+            .map(|(row, n)| {
+                let degs: Vec<String> = row.iter().map(u32::to_string).collect();
+                format!("P{n}|{}", degs.join(" "))
             })
             .collect();
-        format!("{}[{}]", amb.join("x"), eqs.join(";"))
+        format!("[{}]", rows.join(", "))
+    }
+
+    /// The configuration matrix: row `i` holds the degrees of every equation in ambient factor `i`
+    /// (`rows[i][j] = q_j^i`), i.e. the transpose of [`Configuration::equations`].
+    pub fn matrix_rows(&self) -> Vec<Vec<u32>> {
+        (0..self.dims.len())
+            .map(|i| self.equations.iter().map(|q| q[i]).collect())
+            .collect()
     }
 }
 
@@ -473,6 +482,21 @@ mod tests {
     use super::*;
 
     #[test]
+    fn label_has_one_row_per_ambient_factor() {
+        // Rows are ambient factors, columns equations (the configuration-matrix convention, common practice).
+        let split = Configuration::new(&[2, 3], &[vec![2, 1], vec![1, 3]]).unwrap();
+        assert_eq!(split.label(), "[P2|2 1, P3|1 3]");
+        let bicubic = Configuration::new(&[2, 2], &[vec![3, 3]]).unwrap();
+        assert_eq!(bicubic.label(), "[P2|3, P2|3]");
+        let two_cubics = Configuration::new(&[5], &[vec![3], vec![3]]).unwrap();
+        assert_eq!(two_cubics.label(), "[P5|3 3]");
+        // Degrees 2 and 1 of the first equation sit in different rows.
+        let c = Configuration::new(&[1, 3], &[vec![2, 1], vec![0, 3]]).unwrap();
+        assert_eq!(c.matrix_rows(), vec![vec![2, 0], vec![1, 3]]);
+        assert_eq!(c.label(), "[P1|2 0, P3|1 3]");
+    }
+
+    #[test]
     fn quintic_basic_numbers() {
         // Quintic threefold: d = 5, c2·J = 50, χ = -200 (textbook values, Hübsch, "Calabi-Yau manifolds").
         let c = Configuration::new(&[4], &[vec![5]]).unwrap();
@@ -533,7 +557,7 @@ pub struct IntersectionNumber {
 /// The geometry figures in plain, serialisable form (the `geometry` JSON object).
 #[derive(Clone, Debug, PartialEq, Eq, Serialize)]
 pub struct GeometrySummary {
-    /// Configuration label, e.g. `P1xP1xP1xP1[2,2,2,2]`.
+    /// Configuration label, one row per ambient factor, e.g. `[P1|2, P1|2, P1|2, P1|2]` (see [`Configuration::label`]).
     pub configuration: String,
     /// Ambient projective dimensions.
     pub ambient: Vec<usize>,
