@@ -219,10 +219,11 @@ mod tests {
     use crate::cohomology::{DEFAULT_SEED, PolynomialChoice};
     use crate::geometry::Configuration;
 
-    fn hodge_of(dims: &[usize], eqs: &[Vec<u32>]) -> HodgeNumbers {
+    fn hodge_of(dims: &[i64], eqs: &[Vec<i64>]) -> HodgeNumbers {
         let config = Configuration::new(dims, eqs).unwrap();
         let engine =
-            CohomologyEngine::new(&config, PolynomialChoice::Generic { seed: DEFAULT_SEED }).unwrap();
+            CohomologyEngine::new(&config, PolynomialChoice::Generic { seed: DEFAULT_SEED })
+                .unwrap();
         let fav = favourability(&engine).unwrap();
         hodge_numbers(&Geometry::new(&config).summary(), &fav)
     }
@@ -231,7 +232,7 @@ mod tests {
     fn hodge_numbers_of_favourable_cicys_match_published_values() {
         // (h^{1,1}, h^{2,1}) from memory; these configurations are in the CICY list of Candelas, Dale, Lütken and
         // Schimmrigk, Nucl. Phys. B298 (1988) 493.
-        let cases: [(&[usize], Vec<Vec<u32>>, u64, u64); 5] = [
+        let cases: [(&[i64], Vec<Vec<i64>>, u64, u64); 5] = [
             (&[4], vec![vec![5]], 1, 101),                  // quintic
             (&[5], vec![vec![3], vec![3]], 1, 73),          // two cubics in P5
             (&[1, 1, 1, 1], vec![vec![2, 2, 2, 2]], 4, 68), // tetra-quadric

@@ -92,13 +92,20 @@ fn configuration_matrix(g: &GeometrySummary, out: &mut String) {
         .map(|d| d.to_string().len())
         .max()
         .unwrap_or(1)
-        .max(k.to_string().len());
-    let cols: Vec<String> = (1..=k).map(|j| format!("{j:>width$}")).collect();
+        .max(k.to_string().len() + 1);
+    let cols: Vec<String> = (1..=k)
+        .map(|j| format!("{:>width$}", format!("q{j}")))
+        .collect();
     let _ = writeln!(
         out,
         "  configuration matrix (rows: ambient factors, columns: equations)"
     );
-    let lead = g.ambient.iter().map(|n| format!("P{n}").len()).max().unwrap_or(2);
+    let lead = g
+        .ambient
+        .iter()
+        .map(|n| format!("P{n}").len())
+        .max()
+        .unwrap_or(2);
     let _ = writeln!(out, "    {:<lead$}   {}", "", cols.join(" "));
     for (i, n) in g.ambient.iter().enumerate() {
         let row: Vec<String> = g

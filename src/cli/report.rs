@@ -430,6 +430,15 @@ fn flags_section(a: &ModelAnalysis, out: &mut String) {
             "MISMATCH"
         }
     );
+    if let Some(sec) = s.consistency.sections.as_ref().filter(|sec| !sec.passed) {
+        if !f.net_families_match {
+            let _ = writeln!(
+                out,
+                "    (follows from the failed section check, h^0(V) = {}, h^0(V*) = {}: sections enter chi(V) but are not multiplets)",
+                sec.h0_v, sec.h0_v_dual
+            );
+        }
+    }
     let _ = writeln!(
         out,
         "  anti-families: {}",
@@ -605,7 +614,10 @@ mod tests {
         let mut out = String::new();
         anomaly_lines(a, &mut out);
         assert!(out.contains("anomaly c2(TX)-c2(V) open"), "{out}");
-        assert!(out.contains("effectiveness of c2(TX)-c2(V) is NOT shown"), "{out}");
+        assert!(
+            out.contains("effectiveness of c2(TX)-c2(V) is NOT shown"),
+            "{out}"
+        );
         assert!(!out.contains("favourable case"), "{out}");
     }
 
