@@ -55,6 +55,9 @@ enum Command {
         /// Print JSON (one object, or one object per line for --box).
         #[arg(long)]
         json: bool,
+        /// Run a --box even when its estimated time exceeds the limit (15 min).
+        #[arg(long, requires = "box_range")]
+        force: bool,
     },
     /// Consistency checks, slope-zero certificate and the 4d spectrum with charges of a line-bundle sum.
     Spectrum {
@@ -139,6 +142,7 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
             timing,
             threads,
             json,
+            force,
         } => {
             let inputs = Inputs::from_args(&config)?;
             let engine = poly.engine(&inputs)?;
@@ -171,7 +175,7 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                 }
                 (None, Some(range)) => {
                     let (lo, hi) = args::parse_box(&range)?;
-                    box_scan::run(&engine, inputs.config(), lo, hi, threads, json)
+                    box_scan::run(&engine, inputs.config(), lo, hi, threads, json, force)
                 }
                 _ => Err(UserError("give --bundle K or --box LO..HI".into())),
             }

@@ -100,6 +100,54 @@ fn header(result: &SlopeZero, m: usize) -> String {
     )
 }
 
+/// The bundles (0-based) named by a `none` certificate, and the sentence saying why there is no common zero.
+fn obstruction(result: &SlopeZero) -> Option<(Vec<usize>, String)> {
+    match result {
+        SlopeZero::None(NoneCertificate::SignObstruction { bundle, sign }) => Some((
+            vec![*bundle],
+            format!(
+                "no common zero: μ{} {} 0 on the whole open cone (bundle {} obstructs)",
+                bundle + 1,
+                match sign {
+                    super::Sign::Positive => ">",
+                    super::Sign::Negative => "<",
+                },
+                bundle + 1
+            ),
+        )),
+        SlopeZero::None(NoneCertificate::CombinationObstruction { combination }) => {
+            let terms: Vec<String> = combination
+                .iter()
+                .map(|t| format!("{}·μ{}", t.coeff, t.bundle + 1))
+                .collect();
+            Some((
+                combination.iter().map(|t| t.bundle).collect(),
+                format!(
+                    "no common zero: {} > 0 on the whole open cone",
+                    terms.join(" + ").replace("+ -", "- ")
+                ),
+            ))
+        }
+        SlopeZero::None(NoneCertificate::Subdivision { boxes }) => Some((
+            Vec::new(),
+            format!(
+                "no common zero: each of {} boxes covering the cone is excluded by a positive slope combination",
+                boxes.len()
+            ),
+        )),
+        _ => None,
+    }
+}
+
+/// Stroke width of bundle `a`'s zero locus among `r` bundles (earlier bundles wider, drawn underneath).
+fn locus_width(a: usize, r: usize, m: usize) -> f64 {
+    if m == 2 {
+        2.5
+    } else {
+        1.8 + 2.2 * (r.saturating_sub(1 + a)) as f64
+    }
+}
+
 /// Renders the projectivised Kähler cone with every bundle's zero locus
 /// `μ_a = 0`, a legend (bundle index and entries) and the certified point or
 /// box of `result`.
@@ -142,31 +190,62 @@ pub fn plot_kahler_cone_svg(
     }
     let mats = float_slopes(triple, bundles);
     let mark = marked_point(result, m);
-    // Legend.
-    let ly0 = H - 20.0 - 18.0 * bundles.len() as f64;
+    let obstructs = obstruction(result);
+    // Legend: one row per bundle, its marker drawn with the width used in the picture.
+    let width_note = m >= 3 && bundles.len() > 1;
+    let rows = bundles.len() + usize::from(mark.is_some()) + usize::from(width_note);
+    let ly0 = H - 12.0 - 16.0 * (rows as f64 - 1.0);
     for (a, k) in bundles.iter().enumerate() {
-        let y = ly0 + 18.0 * a as f64;
+        let y = ly0 + 16.0 * a as f64;
         let col = COLOURS[a % COLOURS.len()];
         let _ = writeln!(
             out,
-            r#"<line x1="20" y1="{:.1}" x2="44" y2="{:.1}" stroke="{col}" stroke-width="3"/>"#,
+            r#"<line x1="20" y1="{:.1}" x2="44" y2="{:.1}" stroke="{col}" stroke-width="{:.1}"/>"#,
             y - 4.0,
-            y - 4.0
+            y - 4.0,
+            locus_width(a, bundles.len(), m)
         );
         let entries: Vec<String> = k.iter().map(|v| v.to_string()).collect();
+        let blame = match &obstructs {
+            Some((b, _)) if b.contains(&a) => "  ← obstructs",
+            _ => "",
+        };
         text(
             &mut out,
-            50.0,
+            54.0,
             y,
             12,
             "start",
             &format!(
-                "bundle {}: O({})  — zero locus μ{} = 0",
+                "bundle {}: O({})  — zero locus μ{} = 0{blame}",
                 a + 1,
                 entries.join(","),
                 a + 1
             ),
         );
+    }
+    let mut next = ly0 + 16.0 * bundles.len() as f64;
+    if let Some((_, label)) = &mark {
+        let _ = writeln!(
+            out,
+            r#"<circle cx="32" cy="{:.1}" r="6" fill="none" stroke="black" stroke-width="2"/>"#,
+            next - 4.0
+        );
+        text(&mut out, 54.0, next, 12, "start", label);
+        next += 16.0;
+    }
+    if width_note {
+        text(
+            &mut out,
+            54.0,
+            next,
+            11,
+            "start",
+            "line widths: earlier bundles are drawn wider and underneath, so coinciding loci stay visible",
+        );
+    }
+    if let Some((_, why)) = &obstructs {
+        text(&mut out, W / 2.0, 46.0, 12, "middle", why);
     }
     if let SlopeZero::Undecided { reason } = result {
         let short: String = reason.chars().take(110).collect();
@@ -195,76 +274,115 @@ pub fn plot_kahler_cone_svg(
     out
 }
 
+/// `m = 2`: one row per bundle above the segment `t = (1−x, x)`, showing the sign of its slope (solid where
+/// `μ_a > 0`, dashed where `μ_a < 0`) and a tick where it vanishes inside the open segment.
 fn draw_segment(out: &mut String, mats: &[Vec<Vec<f64>>], mark: &Option<(Vec<f64>, String)>) {
-    let (x0, x1, y) = (80.0, W - 80.0, 240.0);
+    let (x0, x1) = (90.0, W - 80.0);
+    let r = mats.len().max(1);
+    let step = (240.0 / r as f64).min(30.0);
+    let row_y = |a: usize| 80.0 + step * a as f64;
+    let y = row_y(r) + 10.0;
     let px = |x: f64| x0 + (x1 - x0) * x;
     let _ = writeln!(
         out,
-        r#"<line x1="{x0}" y1="{y}" x2="{x1}" y2="{y}" stroke="black" stroke-width="2" stroke-dasharray="1,0"/>"#
+        r#"<line x1="{x0}" y1="{y:.1}" x2="{x1}" y2="{y:.1}" stroke="black" stroke-width="2"/>"#
     );
-    let _ = writeln!(
-        out,
-        r#"<circle cx="{x0}" cy="{y}" r="4" fill="white" stroke="black"/>"#
-    );
-    let _ = writeln!(
-        out,
-        r#"<circle cx="{x1}" cy="{y}" r="4" fill="white" stroke="black"/>"#
-    );
-    text(out, x0, y + 28.0, 13, "middle", "t = (1, 0)");
-    text(out, x1, y + 28.0, 13, "middle", "t = (0, 1)");
+    for xe in [x0, x1] {
+        let _ = writeln!(
+            out,
+            r#"<circle cx="{xe}" cy="{y:.1}" r="4" fill="white" stroke="black"/>"#
+        );
+    }
+    text(out, x0, y + 24.0, 13, "middle", "t = (1, 0)");
+    text(out, x1, y + 24.0, 13, "middle", "t = (0, 1)");
     text(
         out,
         W / 2.0,
-        y + 60.0,
+        y + 48.0,
         12,
         "middle",
         "open segment t = (1−x, x), 0 < x < 1 (end points are not in the cone)",
     );
+    text(
+        out,
+        W / 2.0,
+        y + 66.0,
+        12,
+        "middle",
+        "row μa: sign of that slope along the segment — solid > 0, dashed < 0, tick: μa = 0",
+    );
     let n = 4000;
     for (a, mat) in mats.iter().enumerate() {
         let col = COLOURS[a % COLOURS.len()];
-        let f = |x: f64| float_quad(mat, &[1.0 - x, x]);
+        let ya = row_y(a);
+        text(out, x0 - 14.0, ya + 4.0, 12, "end", &format!("μ{}", a + 1));
         let scale = mat.iter().flatten().fold(0.0f64, |s, v| s.max(v.abs()));
         if scale == 0.0 {
             let _ = writeln!(
                 out,
-                r#"<line x1="{x0}" y1="{:.1}" x2="{x1}" y2="{:.1}" stroke="{col}" stroke-width="4" opacity="0.6"/>"#,
-                y - 8.0 - 6.0 * a as f64,
-                y - 8.0 - 6.0 * a as f64
+                r#"<line x1="{x0}" y1="{ya:.1}" x2="{x1}" y2="{ya:.1}" stroke="{col}" stroke-width="6" opacity="0.6"/>"#
             );
+            text(out, x1 + 8.0, ya + 4.0, 11, "start", "≡ 0");
             continue;
         }
-        let mut prev = f(0.0);
+        let f = |x: f64| float_quad(mat, &[1.0 - x, x]) / scale;
+        // Runs of constant sign on the open segment, sampled at cell midpoints.
+        let sign = |v: f64| if v > 0.0 { 1 } else if v < 0.0 { -1 } else { 0 };
+        let mut run_start = 0.0;
+        let mut run_sign = sign(f(0.5 / n as f64));
+        let mut path_pos = String::new();
+        let mut path_neg = String::new();
+        let mut zeros = Vec::new();
         for i in 1..=n {
-            let x = i as f64 / n as f64;
-            let cur = f(x);
-            let crosses = (prev < 0.0 && cur >= 0.0) || (prev > 0.0 && cur <= 0.0) || prev == 0.0;
-            if crosses {
-                let z = if prev == 0.0 { x - 1.0 / n as f64 } else { x };
-                let xx = px(z);
-                let _ = writeln!(
-                    out,
-                    r#"<line x1="{xx:.1}" y1="{:.1}" x2="{xx:.1}" y2="{:.1}" stroke="{col}" stroke-width="3"/>"#,
-                    y - 12.0 - 16.0 * a as f64,
-                    y - 24.0 - 16.0 * a as f64
-                );
+            let x = (i as f64 + 0.5) / n as f64;
+            let sg = if i == n { 2 } else { sign(f(x)) };
+            if sg != run_sign {
+                let end = i as f64 / n as f64;
+                let seg = format!("M{:.1} {ya:.1}L{:.1} {ya:.1}", px(run_start), px(end));
+                match run_sign {
+                    1 => path_pos.push_str(&seg),
+                    -1 => path_neg.push_str(&seg),
+                    _ => {}
+                }
+                if i < n {
+                    zeros.push(end);
+                }
+                run_start = end;
+                run_sign = sg;
             }
-            prev = cur;
+        }
+        if !path_pos.is_empty() {
+            let _ = writeln!(
+                out,
+                r#"<path d="{path_pos}" stroke="{col}" stroke-width="2.5" fill="none"/>"#
+            );
+        }
+        if !path_neg.is_empty() {
+            let _ = writeln!(
+                out,
+                r#"<path d="{path_neg}" stroke="{col}" stroke-width="2.5" stroke-dasharray="6,4" fill="none"/>"#
+            );
+        }
+        for z in zeros {
+            let xx = px(z);
+            let _ = writeln!(
+                out,
+                r#"<line x1="{xx:.1}" y1="{:.1}" x2="{xx:.1}" y2="{:.1}" stroke="{col}" stroke-width="3"/>"#,
+                ya - 8.0,
+                ya + 8.0
+            );
+            let _ = writeln!(
+                out,
+                r##"<line x1="{xx:.1}" y1="{:.1}" x2="{xx:.1}" y2="{y:.1}" stroke="#999999" stroke-width="0.8" stroke-dasharray="2,3"/>"##,
+                ya + 8.0
+            );
         }
     }
-    if let Some((t, label)) = mark {
+    if let Some((t, _)) = mark {
         let xx = px(t[1]);
         let _ = writeln!(
             out,
-            r#"<circle cx="{xx:.1}" cy="{y}" r="7" fill="none" stroke="black" stroke-width="2"/>"#
-        );
-        text(
-            out,
-            xx,
-            y - 30.0 - 14.0 * mats.len() as f64,
-            12,
-            "middle",
-            label,
+            r#"<circle cx="{xx:.1}" cy="{y:.1}" r="7" fill="none" stroke="black" stroke-width="2"/>"#
         );
     }
 }
@@ -323,7 +441,7 @@ fn draw_boxes(out: &mut String, result: &SlopeZero, proj: &dyn Fn([f64; 3]) -> (
     text(
         out,
         W / 2.0,
-        482.0,
+        459.0,
         12,
         "middle",
         &format!(
@@ -346,8 +464,8 @@ fn draw_triangle(
     };
     let s3: f64 = base[..3].iter().sum();
     let va = (W / 2.0, 70.0);
-    let vb = (150.0, 430.0);
-    let vc = (W - 150.0, 430.0);
+    let vb = (150.0, 405.0);
+    let vc = (W - 150.0, 405.0);
     let proj = |b: [f64; 3]| {
         (
             b[0] * va.0 + b[1] * vb.0 + b[2] * vc.0,
@@ -373,18 +491,30 @@ fn draw_triangle(
         text(
             out,
             W / 2.0,
-            462.0,
+            443.0,
             12,
             "middle",
             "open simplex t1+t2+t3 = 1, t > 0 (barycentric); edges are not in the cone",
         );
     } else {
+        // Each corner is a boundary point of the slice: t_i = t1+t2+t3 for one i ≤ 3, the other two 0, the rest
+        // frozen.
         let lab = |i: usize| {
-            let others: Vec<String> = (0..3)
-                .filter(|&j| j != i)
-                .map(|j| format!("t{}", j + 1))
+            let coords: Vec<String> = (0..m)
+                .map(|j| {
+                    let v = if j < 3 {
+                        if j == i { s3 } else { 0.0 }
+                    } else {
+                        base[j]
+                    };
+                    if v == 0.0 {
+                        "0".to_string()
+                    } else {
+                        format!("{v:.3}")
+                    }
+                })
                 .collect();
-            format!("t{} = {s3:.4}, {} = 0", i + 1, others.join(" = "))
+            format!("t = ({})", coords.join(", "))
         };
         text(out, va.0, va.1 - 10.0, 13, "middle", &lab(0));
         text(out, vb.0 - 10.0, vb.1 + 18.0, 13, "middle", &lab(1));
@@ -400,7 +530,7 @@ fn draw_triangle(
         text(
             out,
             W / 2.0,
-            462.0,
+            443.0,
             12,
             "middle",
             &format!(
@@ -455,14 +585,14 @@ fn draw_triangle(
         }
         if !path.is_empty() {
             // Earlier bundles are drawn wider so coinciding loci stay visible.
-            let width = 1.8 + 2.2 * (mats.len() - 1 - ai) as f64;
+            let width = locus_width(ai, mats.len(), m);
             let _ = writeln!(
                 out,
                 r#"<path d="{path}" fill="none" stroke="{col}" stroke-width="{width:.1}" stroke-linecap="round"/>"#
             );
         }
     }
-    if let Some((t, label)) = mark {
+    if let Some((t, _)) = mark {
         let b = [t[0] / s3, t[1] / s3, t[2] / s3];
         let (x, y) = proj(b);
         let _ = writeln!(
@@ -473,6 +603,5 @@ fn draw_triangle(
             out,
             r#"<circle cx="{x:.1}" cy="{y:.1}" r="2" fill="black"/>"#
         );
-        text(out, W / 2.0, 482.0, 12, "middle", &format!("◯ {label}"));
     }
 }

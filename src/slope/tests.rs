@@ -663,3 +663,44 @@ proptest! {
         prop_assert_eq!(r1.status(), r2.status());
     }
 }
+
+#[test]
+fn svg_segment_rows_name_the_obstruction_and_skip_end_points() {
+    // bicubic-b's bundles: μ4 of O(1,0) is > 0 on the open cone and vanishes only at the end point t = (1, 0).
+    let d = bicubic();
+    let b = vec![vec![-1, 1], vec![-1, 1], vec![1, -1], vec![1, 0]];
+    let r = run(&d, &b);
+    assert_eq!(r.status(), "none");
+    let s = plot_kahler_cone_svg(&d, &b, &r);
+    check_svg(&s);
+    assert!(s.contains("μ4 &gt; 0 on the whole open cone (bundle 4 obstructs)"), "{s}");
+    assert!(s.contains("zero locus μ4 = 0  ← obstructs"));
+    assert!(s.contains("solid &gt; 0, dashed &lt; 0"));
+    // No zero tick of bundle 4 (colour #9467bd, width 3): its only zero is an end point, outside the cone.
+    assert!(
+        !s.lines()
+            .any(|l| l.contains(r##"stroke="#9467bd" stroke-width="3""##)),
+        "{s}"
+    );
+    // Ticks of the other three bundles all sit at x = 1/2, each on its own row (distinct heights).
+    let ticks: Vec<&str> = s
+        .lines()
+        .filter(|l| l.starts_with("<line") && l.contains(r#"stroke-width="3""#))
+        .collect();
+    assert_eq!(ticks.len(), 3, "{ticks:?}");
+}
+
+#[test]
+fn svg_legend_marker_is_a_shape_and_widths_are_explained() {
+    let d = p1_4();
+    let b = vec![vec![2, -1, -1, 0], vec![-2, 1, 1, 0], vec![1, 1, -1, -1]];
+    let r = run(&d, &b);
+    let s = plot_kahler_cone_svg(&d, &b, &r);
+    check_svg(&s);
+    // The point marker is drawn (a circle beside its text), not a glyph inside the text.
+    assert!(!s.contains('◯'));
+    assert!(s.contains(r#"<circle cx="32""#));
+    assert!(s.contains("line widths: earlier bundles are drawn wider and underneath"));
+    // Corners are labelled by the full point t of the slice.
+    assert!(s.contains(">t = (0."), "{s}");
+}
