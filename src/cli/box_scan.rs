@@ -221,3 +221,37 @@ pub fn run(
     }
     Ok(String::new())
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn durations_read_as_people_say_them() {
+        assert_eq!(human_seconds(40.2), "40 s");
+        assert_eq!(human_seconds(450.0), "7.5 min");
+        assert_eq!(human_seconds(3.2 * 3600.0), "3.2 h");
+        assert_eq!(human_seconds(12.0 * 86_400.0), "12 days");
+    }
+
+    #[test]
+    fn cost_model_reproduces_the_measured_tetraquadric_boxes() {
+        // Measured (docs/performance.md): −5..5 in 2.6 s and −6..6 in 18.3 s on 2 threads.
+        let config = Configuration::new(&[1, 1, 1, 1], &[vec![2, 2, 2, 2]]).unwrap();
+        let pool = rayon::ThreadPoolBuilder::new()
+            .num_threads(2)
+            .build()
+            .unwrap();
+        for (n, measured) in [(5i64, 2.6), (6, 18.3)] {
+            let width = (2 * n + 1) as usize;
+            let work: f64 = box_work(&pool, &config, 4, -n, width, width.pow(4))
+                .iter()
+                .sum();
+            let est = estimated_seconds(&config, work, 2);
+            assert!(
+                est > 0.7 * measured && est < 1.4 * measured,
+                "box −{n}..{n}: estimate {est} s, measured {measured} s"
+            );
+        }
+    }
+}

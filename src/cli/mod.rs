@@ -56,7 +56,7 @@ enum Command {
         #[arg(long)]
         json: bool,
         /// Run a --box even when its estimated time exceeds the limit (15 min).
-        #[arg(long, requires = "box_range")]
+        #[arg(long)]
         force: bool,
     },
     /// Consistency checks, slope-zero certificate and the 4d spectrum with charges of a line-bundle sum.
@@ -144,6 +144,9 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
             json,
             force,
         } => {
+            if force && box_range.is_none() {
+                return Err(UserError("--force applies only to --box".into()));
+            }
             let inputs = Inputs::from_args(&config)?;
             let engine = poly.engine(&inputs)?;
             match (bundle, box_range) {

@@ -2,11 +2,17 @@
 //! the bundles' slopes, and the certified point or box.
 //!
 //! Pictures: `m = 1` a note (the cone is a single ray); `m = 2` the segment
-//! `t = (1-x, x)`, `0 <= x <= 1`; `m = 3` the simplex `Σ t = 1` drawn as a
+//! `t = (1-x, x)`, `0 <= x <= 1`, with one row per bundle above it showing
+//! the sign of its slope (solid `> 0`, dashed `< 0`, a tick at each zero
+//! inside the open segment); `m = 3` the simplex `Σ t = 1` drawn as a
 //! triangle in barycentric coordinates; `m >= 4` the 2-d slice through a point
 //! `p` (the certified point, else the barycentre), normalised so `Σ p = 1`,
 //! in which `t^4..t^m` are frozen at `p` and `(t^1,t^2,t^3)` range over the
 //! triangle `t^1+t^2+t^3 = p^1+p^2+p^3`; the slice is stated in the picture.
+//!
+//! Every picture explains itself: a `none` verdict names the obstructing
+//! bundle (or combination), legend markers are drawn with the width used for
+//! that bundle's locus, corners of a slice are labelled by their full point.
 //!
 //! Invariant: drawing uses floats only and never influences a verdict; the
 //! output is a self-contained SVG document (root element with `xmlns`,
