@@ -232,7 +232,8 @@ mod tests {
     fn hodge_numbers_of_favourable_cicys_match_published_values() {
         // (h^{1,1}, h^{2,1}) from memory; these configurations are in the CICY list of Candelas, Dale, Lütken and
         // Schimmrigk, Nucl. Phys. B298 (1988) 493.
-        let cases: [(&[i64], Vec<Vec<i64>>, u64, u64); 5] = [
+        type Case<'a> = (&'a [i64], Vec<Vec<i64>>, u64, u64);
+        let cases: [Case; 5] = [
             (&[4], vec![vec![5]], 1, 101),                  // quintic
             (&[5], vec![vec![3], vec![3]], 1, 73),          // two cubics in P5
             (&[1, 1, 1, 1], vec![vec![2, 2, 2, 2]], 4, 68), // tetra-quadric

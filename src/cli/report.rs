@@ -430,14 +430,13 @@ fn flags_section(a: &ModelAnalysis, out: &mut String) {
             "MISMATCH"
         }
     );
-    if let Some(sec) = s.consistency.sections.as_ref().filter(|sec| !sec.passed) {
-        if !f.net_families_match {
-            let _ = writeln!(
-                out,
-                "    (follows from the failed section check, h^0(V) = {}, h^0(V*) = {}: sections enter chi(V) but are not multiplets)",
-                sec.h0_v, sec.h0_v_dual
-            );
-        }
+    let failed_sections = s.consistency.sections.as_ref().filter(|sec| !sec.passed);
+    if let Some(sec) = failed_sections.filter(|_| !f.net_families_match) {
+        let _ = writeln!(
+            out,
+            "    (follows from the failed section check, h^0(V) = {}, h^0(V*) = {}: sections enter chi(V) but are not multiplets)",
+            sec.h0_v, sec.h0_v_dual
+        );
     }
     let _ = writeln!(
         out,

@@ -333,7 +333,15 @@ fn draw_segment(out: &mut String, mats: &[Vec<Vec<f64>>], mark: &Option<(Vec<f64
         }
         let f = |x: f64| float_quad(mat, &[1.0 - x, x]) / scale;
         // Runs of constant sign on the open segment, sampled at cell midpoints.
-        let sign = |v: f64| if v > 0.0 { 1 } else if v < 0.0 { -1 } else { 0 };
+        let sign = |v: f64| {
+            if v > 0.0 {
+                1
+            } else if v < 0.0 {
+                -1
+            } else {
+                0
+            }
+        };
         let mut run_start = 0.0;
         let mut run_sign = sign(f(0.5 / n as f64));
         let mut path_pos = String::new();

@@ -673,7 +673,10 @@ fn svg_segment_rows_name_the_obstruction_and_skip_end_points() {
     assert_eq!(r.status(), "none");
     let s = plot_kahler_cone_svg(&d, &b, &r);
     check_svg(&s);
-    assert!(s.contains("μ4 &gt; 0 on the whole open cone (bundle 4 obstructs)"), "{s}");
+    assert!(
+        s.contains("μ4 &gt; 0 on the whole open cone (bundle 4 obstructs)"),
+        "{s}"
+    );
     assert!(s.contains("zero locus μ4 = 0  ← obstructs"));
     assert!(s.contains("solid &gt; 0, dashed &lt; 0"));
     // No zero tick of bundle 4 (colour #9467bd, width 3): its only zero is an end point, outside the cone.
