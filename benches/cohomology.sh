@@ -27,3 +27,9 @@ run "(b) P5 [3;3], box -6..6, generic" cohomology --ambient 5 --equations "3;3" 
 run "(b) P2xP3 [2,1;1,3], box -4..4, generic" cohomology --ambient 2,3 --equations "2,1;1,3" --box -4..4
 run "(b) P1^5 [1,1,1,1,2;1,1,1,1,0], box -2..2" cohomology --ambient 1,1,1,1,1 --equations "1,1,1,1,2;1,1,1,1,0" --box -2..2
 run "(b) P2xP2 [3,3], box -5..5, generic" cohomology --ambient 2,2 --equations 3,3 --box -5..5
+# Growth of a box scan with its radius (docs/performance.md, "Growth of a box scan"): benches/cohomology.sh growth
+if [ "${1:-}" = growth ]; then
+  for n in 2 3 4 5 6; do
+    run "(g) P1^4 [2,2,2,2], box -$n..$n" cohomology --ambient 1,1,1,1 --equations 2,2,2,2 --box "-$n..$n"
+  done
+fi
