@@ -143,4 +143,24 @@ fn main() {
                 .unwrap();
         run(name, &engine, &bundles);
     }
+    // A codimension-2 triple whose classes all have type 1 (large rational coefficients in the lifts).
+    let config = Configuration::new(
+        &[1, 1, 1, 1, 1],
+        &[vec![1, 1, 1, 1, 2], vec![1, 1, 1, 1, 0]],
+    )
+    .expect("configuration");
+    let engine = CohomologyEngine::new(&config, PolynomialChoice::Generic { seed: 3 }).unwrap();
+    let ce = CouplingEngine::new(&engine);
+    let t: [&[i64]; 3] = [&[-1, 1, 1, -1, 0], &[3, 1, -2, -2, 0], &[-2, -2, 1, 3, 0]];
+    let t0 = Instant::now();
+    match ce.yukawa_tensor(t) {
+        Ok(r) => println!(
+            "P1^5 type-1 triple {:?}: dims {:?} types {:?}  {:.3} s",
+            t,
+            r.dims,
+            r.types,
+            t0.elapsed().as_secs_f64()
+        ),
+        Err(e) => println!("P1^5 type-1 triple: refused: {e}"),
+    }
 }
