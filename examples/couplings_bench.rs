@@ -110,7 +110,8 @@ fn main() {
         run(&model.name, &engine, bundles);
     }
     // Codimension-2 configurations with invented rank-5 sums (c1 = 0; not necessarily anomaly-free).
-    let extra: [(&str, Vec<i64>, Vec<Vec<i64>>, Vec<Vec<i64>>); 2] = [
+    type Case = (&'static str, Vec<i64>, Vec<Vec<i64>>, Vec<Vec<i64>>);
+    let extra: [Case; 2] = [
         (
             "P1^5[(1,1,1,1,2);(1,1,1,1,0)]",
             vec![1, 1, 1, 1, 1],

@@ -133,12 +133,17 @@ struct Normalisation {
     generator: SparseVec<BigRational>,
 }
 
+/// Lifted bases by (bundle, degree).
+type BasisCache = HashMap<(Vec<i64>, i64), Arc<LiftedBasis>>;
+/// Terms of a cochain by their minimal vertices: key, coefficient, Čech degree per factor.
+type MinVertexIndex<'c> = HashMap<Vec<u8>, Vec<(&'c CechKey, &'c BigRational, Vec<u32>)>>;
+
 /// Computes couplings for one cohomology engine, caching lifted bases per (bundle, degree) and the
 /// normalisation of `H^3(X, O_X)`.
 pub struct CouplingEngine<'a> {
     engine: &'a CohomologyEngine,
     polys: FieldPolys<BigRational>,
-    bases: Mutex<HashMap<(Vec<i64>, i64), Arc<LiftedBasis>>>,
+    bases: Mutex<BasisCache>,
     norm: OnceLock<Result<Arc<Normalisation>, CouplingError>>,
     /// Memo of the linear functional `φ(key) = f(π'(key))` on single Čech–Koszul terms of `O_X`.
     functional: Mutex<HashMap<CechKey, BigRational>>,
@@ -206,7 +211,7 @@ fn for_each_product_term<'c>(
     y: &'c Cochain<BigRational>,
     mut visit: impl FnMut(CechKey, bool, &'c BigRational, &'c BigRational) -> bool,
 ) -> bool {
-    let mut index: HashMap<Vec<u8>, Vec<(&CechKey, &BigRational, Vec<u32>)>> = HashMap::default();
+    let mut index: MinVertexIndex<'c> = HashMap::default();
     for (k, c) in y {
         let mins: Vec<u8> = k.faces.iter().map(|f| f.trailing_zeros() as u8).collect();
         let qs: Vec<u32> = k.faces.iter().map(|f| f.count_ones() - 1).collect();
@@ -376,7 +381,6 @@ impl<'a> CouplingEngine<'a> {
                 "the generator is a D-coboundary (the polynomials are degenerate)".into(),
             ));
         }
-        drop(cx);
         Ok(Normalisation {
             page,
             image,
