@@ -24,17 +24,17 @@
 //! Invariant of a [`ParametricYukawa`]: at every interpolation and check point, every entry evaluates to the
 //! exact value computed there, and `values.len() = dims[0]·dims[1]·dims[2]` (row-major like [`YukawaTensor`]).
 
-use super::value::{YukawaTensor, yukawa_tensor};
-use super::CouplingError;
-use crate::arith::{RationalFunction, UniPoly, rational_interpolate, rational_roots};
-use crate::cohomology::{CohomologyEngine, CohomologyError, PolynomialChoice};
+use super::value::{CouplingError, CouplingEngine, YukawaTensor};
+use crate::arith::{RationalField, RationalFunction, UniPoly, rational_interpolate, rational_roots};
+use crate::cohomology::complex::Complex;
+use crate::cohomology::{CohomologyEngine, CohomologyError, PolynomialChoice, class_basis};
 use crate::geometry::Configuration;
 use crate::poly::parametric::ParametricPolynomial;
 use crate::poly::{Polynomial, VariableLayout};
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_rational::BigRational;
-use num_traits::{Signed, Zero};
+use num_traits::Zero;
 use serde::Serialize;
 use thiserror::Error;
 
@@ -175,7 +175,8 @@ pub fn sample_value(n: usize) -> BigRational {
 #[derive(Clone, Debug, PartialEq, Eq)]
 struct Signature {
     h1: [usize; 3],
-    classes: [Vec<(usize, Vec<(Vec<usize>, Vec<Vec<i32>>)>)>; 3],
+    /// Per class: its type and the support (E_1 coordinates) of its echelon vector.
+    classes: [Vec<(usize, Vec<usize>)>; 3],
 }
 
 enum PointResult {
@@ -213,35 +214,35 @@ fn evaluate(
     let mut h1 = [0usize; 3];
     let mut classes: [Vec<_>; 3] = Default::default();
     for s in 0..3 {
-        let reps = match engine.representatives(bundles[s]) {
-            Ok(r) => r,
+        // A degenerate member shows up as hypercohomology outside degrees 0..=dim X.
+        match engine.cohomology(bundles[s]) {
+            Ok(_) => {}
             Err(e @ CohomologyError::NotCompleteIntersection { .. }) => {
                 return Ok(PointResult::Degenerate(e.to_string()));
             }
             Err(e) => return Err(e.into()),
-        };
-        // A degenerate member can also show up as hypercohomology in the wrong degrees.
-        if let Err(e @ CohomologyError::NotCompleteIntersection { .. }) =
-            engine.cohomology(bundles[s])
-        {
-            return Ok(PointResult::Degenerate(e.to_string()));
         }
-        let deg1: Vec<_> = reps.into_iter().filter(|c| c.degree == 1).collect();
-        h1[s] = deg1.len();
-        classes[s] = deg1
+        let (page, fpolys) = engine.rational_page(bundles[s])?;
+        let cx = Complex {
+            field: &RationalField,
+            layout: engine.layout(),
+            page: &page,
+            polys: &fpolys,
+        };
+        let basis = class_basis(&cx, 1);
+        h1[s] = basis.len();
+        classes[s] = basis
             .iter()
-            .map(|c| {
-                (
-                    c.class_type,
-                    c.bott_terms
-                        .iter()
-                        .map(|t| (t.koszul.clone(), t.monomial.clone()))
-                        .collect(),
-                )
-            })
+            .map(|c| (c.class_type, c.vector.iter().map(|(i, _)| *i).collect()))
             .collect();
     }
-    let tensor = yukawa_tensor(&engine, bundles)?;
+    let tensor = match CouplingEngine::new(&engine).yukawa_tensor(bundles) {
+        Ok(t) => t,
+        Err(CouplingError::Cohomology(e @ CohomologyError::NotCompleteIntersection { .. })) => {
+            return Ok(PointResult::Degenerate(e.to_string()));
+        }
+        Err(e) => return Err(e.into()),
+    };
     Ok(PointResult::Computed(Signature { h1, classes }, tensor))
 }
 
