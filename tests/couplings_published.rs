@@ -154,14 +154,19 @@ fn random_triples(engine: &CohomologyEngine, seed: u64, wanted: usize) -> Vec<[V
         // Cheap Bott-level filter first: each bundle must have a non-zero H^1(A, L) (type 0) or
         // H^2(A, L ⊗ N^*) (type 1), and a small E_1 page.
         let bott_h1 = |k: &Vec<i64>| {
-            let type0 = k.iter().filter(|&&x| x <= -2).count() == 1 && k.iter().all(|&x| x <= -2 || x >= 0);
-            let type1 = k.iter().filter(|&&x| x <= 0).count() == 2 && k.iter().all(|&x| x <= 0 || x >= 2);
+            let type0 =
+                k.iter().filter(|&&x| x <= -2).count() == 1 && k.iter().all(|&x| x <= -2 || x >= 0);
+            let type1 =
+                k.iter().filter(|&&x| x <= 0).count() == 2 && k.iter().all(|&x| x <= 0 || x >= 2);
             (type0 || type1) && estimate_e1_size(engine.config(), k) <= 48
         };
         if !ks.iter().all(bott_h1) {
             continue;
         }
-        let h1: Vec<u64> = ks.iter().map(|k| engine.cohomology(k).unwrap().h[1]).collect();
+        let h1: Vec<u64> = ks
+            .iter()
+            .map(|k| engine.cohomology(k).unwrap().h[1])
+            .collect();
         if h1.iter().any(|&h| h == 0 || h > 12) {
             continue;
         }
@@ -248,7 +253,8 @@ fn invented_polynomial(shift: i64) -> Polynomial {
 
 #[test]
 fn published_formula_agrees_with_the_general_route_generic_member() {
-    let engine = CohomologyEngine::new(&tetraquadric(), PolynomialChoice::Generic { seed: 7 }).unwrap();
+    let engine =
+        CohomologyEngine::new(&tetraquadric(), PolynomialChoice::Generic { seed: 7 }).unwrap();
     let triples = random_triples(&engine, 11, 5);
     let (c, n) = compare(&engine, &triples);
     eprintln!("constant {c}, {n} entries");
@@ -276,7 +282,8 @@ fn published_formula_agrees_with_the_general_route_given_polynomials() {
 fn published_formula_is_graded_antisymmetric() {
     // Exchanging the two type-0 slots flips the sign of the formula itself (a check of the sign rule above
     // that does not involve the general route).
-    let engine = CohomologyEngine::new(&tetraquadric(), PolynomialChoice::Generic { seed: 7 }).unwrap();
+    let engine =
+        CohomologyEngine::new(&tetraquadric(), PolynomialChoice::Generic { seed: 7 }).unwrap();
     let (k1, k2, k3) = (vec![-2, 0, 1, 0], vec![0, -2, 0, 1], vec![2, 2, -1, -1]);
     let (a, b, c) = (
         h1_classes(&engine, &k1),
@@ -299,4 +306,129 @@ fn published_formula_is_graded_antisymmetric() {
         }
     }
     assert!(nonzero > 0);
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// A polynomial symmetric under exchanging the ambient factors 3 and 4.
+// ---------------------------------------------------------------------------------------------------------
+
+/// A tetra-quadric polynomial with our own invented coefficients depending on the degrees `(a_1, a_2, a_3, a_4)`
+/// in the coordinates `x_{i,1}` only through `a_1`, `a_2`, `a_3 + a_4` and `a_3 a_4`: symmetric under exchanging
+/// the factors 3 and 4. `perturb ≠ 0` changes the one coefficient of `x1_1^2 x2_0 x2_1 x3_1^2 x4_0^2`, breaking
+/// the symmetry.
+fn symmetric_polynomial(perturb: i64) -> Polynomial {
+    let layout = VariableLayout::new(&[1, 1, 1, 1]);
+    let mut p = Polynomial::zero(layout.nvars());
+    for e in monomials_of_multidegree(&layout, &[2, 2, 2, 2]) {
+        let (a1, a2, a3, a4) = (e[1] as i64, e[3] as i64, e[5] as i64, e[7] as i64);
+        let (s, t) = (a3 + a4, a3 * a4);
+        let mut c = (3 * s + 5 * t + 7 * a1 + 2 * a1 * a2 + 4 * a2 * s + 1) % 9 - 4;
+        if c == 0 {
+            c = 2;
+        }
+        if (a1, a2, a3, a4) == (2, 1, 2, 0) {
+            c += perturb;
+        }
+        p.add_term(e, BigRational::from_integer(c.into()));
+    }
+    p
+}
+
+/// The exchange σ of factors 3 and 4 on a class whose `E_1` vector is one Bott monomial with coefficient 1:
+/// the class of `σk` with the swapped monomial, and the sign `−1` when the monomial is top in both factors
+/// (`θ_4 θ_3 = −θ_3 θ_4`). The Koszul generator is fixed (the polynomial is invariant). Panics when a class is
+/// not a monomial class (the bundles below are chosen so that every class is one).
+fn sigma_permutation(
+    src: &[ClassRepresentative],
+    dst: &[ClassRepresentative],
+) -> Vec<(usize, i32)> {
+    src.iter()
+        .map(|c| {
+            assert_eq!(c.bott_terms.len(), 1, "monomial class expected");
+            let t = &c.bott_terms[0];
+            assert_eq!(t.coefficient, "1");
+            let mut m = t.monomial.clone();
+            m.swap(2, 3);
+            let tops = top_factors(t);
+            let sign = if tops.contains(&2) && tops.contains(&3) {
+                -1
+            } else {
+                1
+            };
+            let j = dst
+                .iter()
+                .position(|w| {
+                    w.bott_terms.len() == 1
+                        && w.bott_terms[0].monomial == m
+                        && w.bott_terms[0].koszul == t.koszul
+                })
+                .expect("σ maps monomial classes to monomial classes");
+            (j, sign)
+        })
+        .collect()
+}
+
+/// Higgs `H = O(−4,0,0,0) = σH` (3 classes), families `F = O(2,0,2,−2)` (rows) and `σF = O(2,0,−2,2)` (columns),
+/// 12 classes each (9 of type 0 and 3 of type 1, all monomial: no coboundaries and no kernel condition), so the
+/// coupling matrix `M_h[r][c] = λ(h, F_r, σF_c)` has entries of type sum 1 and 2 (the latter depend on the
+/// polynomial through the lifted cocycles). σ maps `F` to `σF` and back, fixes `H`, and reverses the sign of the
+/// `H^3(X, O_X)` generator (top in every factor); with the graded antisymmetry in the last two slots this gives
+/// the derived relation `M_{σh}[σ(c)][σ(r)] = M_h[r][c]` (signs from `sigma_permutation` included): row r of
+/// the Yukawa matrix equals column σ(r), read through σ. Returns the number of entries where it fails and
+/// the number of non-zero type-sum-2 entries.
+fn symmetric_row_relation(perturb: i64) -> (usize, usize) {
+    let engine = CohomologyEngine::new(
+        &tetraquadric(),
+        PolynomialChoice::Given(vec![symmetric_polynomial(perturb)]),
+    )
+    .unwrap();
+    let (h, f, sf) = (vec![-4, 0, 0, 0], vec![2, 0, 2, -2], vec![2, 0, -2, 2]);
+    let (ch, cf, csf) = (
+        h1_classes(&engine, &h),
+        h1_classes(&engine, &f),
+        h1_classes(&engine, &sf),
+    );
+    let (ph, pf, psf) = (
+        sigma_permutation(&ch, &ch),
+        sigma_permutation(&cf, &csf),
+        sigma_permutation(&csf, &cf),
+    );
+    let t = yukawa_tensor(&engine, [&h, &f, &sf]).unwrap();
+    assert_eq!(t.dims, [3, 12, 12]);
+    let (mut failures, mut type_two) = (0, 0);
+    for a in 0..3 {
+        for r in 0..12 {
+            for c in 0..12 {
+                let v = t.get(a, r, c);
+                if t.types[0][a] + t.types[1][r] + t.types[2][c] == 2 && !v.is_zero() {
+                    type_two += 1;
+                }
+                let (sa, ea) = ph[a];
+                let (sr, er) = pf[r]; // index in σF
+                let (sc, ec) = psf[c]; // index in F
+                let image = t.get(sa, sc, sr) * BigRational::from_integer((ea * er * ec).into());
+                if &image != v {
+                    failures += 1;
+                }
+            }
+        }
+    }
+    (failures, type_two)
+}
+
+#[test]
+fn symmetric_polynomial_gives_rows_related_by_the_symmetry() {
+    let (failures, type_two) = symmetric_row_relation(0);
+    assert!(type_two > 0, "no polynomial-dependent entry");
+    assert_eq!(failures, 0);
+}
+
+#[test]
+fn perturbing_one_coefficient_makes_the_rows_differ() {
+    let (failures, type_two) = symmetric_row_relation(3);
+    assert!(type_two > 0);
+    assert!(
+        failures > 0,
+        "the relation survived a symmetry-breaking perturbation"
+    );
 }

@@ -24,8 +24,10 @@
 //! Invariant of a [`ParametricYukawa`]: at every interpolation and check point, every entry evaluates to the
 //! exact value computed there, and `values.len() = dims[0]·dims[1]·dims[2]` (row-major like [`YukawaTensor`]).
 
-use super::value::{CouplingError, CouplingEngine, YukawaTensor};
-use crate::arith::{RationalField, RationalFunction, UniPoly, rational_interpolate, rational_roots};
+use super::value::{CouplingEngine, CouplingError, YukawaTensor};
+use crate::arith::{
+    RationalField, RationalFunction, UniPoly, rational_interpolate, rational_roots,
+};
 use crate::cohomology::complex::Complex;
 use crate::cohomology::{CohomologyEngine, CohomologyError, PolynomialChoice, class_basis};
 use crate::geometry::Configuration;
@@ -314,7 +316,14 @@ pub fn parametric_yukawa_tensor(
         }
         next_try = b.points.len() + 2;
         if let Some(result) = try_reconstruct(parameter, bundles, b, extra) {
-            return Ok(finish(config, polys, bundles, result, &buckets[generic], &sampled));
+            return Ok(finish(
+                config,
+                polys,
+                bundles,
+                result,
+                &buckets[generic],
+                &sampled,
+            ));
         }
     }
     if buckets.is_empty() {
@@ -365,7 +374,11 @@ fn try_reconstruct(
     });
     Some(ParametricYukawa {
         parameter: parameter.to_string(),
-        bundles: [bundles[0].to_vec(), bundles[1].to_vec(), bundles[2].to_vec()],
+        bundles: [
+            bundles[0].to_vec(),
+            bundles[1].to_vec(),
+            bundles[2].to_vec(),
+        ],
         dims: first.dims,
         types: first.types.clone(),
         values,
