@@ -2,6 +2,8 @@
 //! direct exact computations at values that were not sampled, against the rescaling law, and on degenerate
 //! values of the parameter.
 
+#![allow(clippy::needless_range_loop)] // index-heavy tensor algebra reads best with explicit indices
+
 use num_rational::BigRational;
 use num_traits::{One, Zero};
 use sheafwright::arith::RationalFunction;

@@ -31,6 +31,8 @@
 //! by the general route's own identity tests). Entries with type sum below K are checked to be exactly zero
 //! (the vanishing theorem, Blesneag, Buchbinder, Lukas, JHEP 2017, from memory).
 
+#![allow(clippy::needless_range_loop)] // index-heavy tensor algebra reads best with explicit indices
+
 use num_rational::BigRational;
 use num_traits::{One, Zero};
 use rand::{Rng, SeedableRng};

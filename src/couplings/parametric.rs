@@ -183,7 +183,7 @@ struct Signature {
 
 enum PointResult {
     Degenerate(String),
-    Computed(Signature, YukawaTensor),
+    Computed(Signature, Box<YukawaTensor>),
 }
 
 fn specialise(
@@ -245,7 +245,10 @@ fn evaluate(
         }
         Err(e) => return Err(e.into()),
     };
-    Ok(PointResult::Computed(Signature { h1, classes }, tensor))
+    Ok(PointResult::Computed(
+        Signature { h1, classes },
+        Box::new(tensor),
+    ))
 }
 
 /// Reconstruct one entry from `points` (interpolation on the first `n_interp`, verification on all).
@@ -299,10 +302,10 @@ pub fn parametric_yukawa_tensor(
             PointResult::Computed(sig, tensor) => {
                 sampled.push((t.clone(), Some(sig.clone()), None));
                 match buckets.iter_mut().find(|b| b.signature == sig) {
-                    Some(b) => b.points.push((t, tensor)),
+                    Some(b) => b.points.push((t, *tensor)),
                     None => buckets.push(Bucket {
                         signature: sig,
-                        points: vec![(t, tensor)],
+                        points: vec![(t, *tensor)],
                     }),
                 }
             }
