@@ -69,13 +69,13 @@ impl ParametricPolynomial {
     /// **Panics** if `parameter` is not a valid name (see [`is_valid_parameter_name`]); callers check it first.
     ///
     /// ```
-    /// use sheafwright::poly::{VariableLayout, parametric::ParametricPolynomial};
+    /// use sheafwright::poly::{Polynomial, VariableLayout, parametric::ParametricPolynomial};
     /// use num_rational::BigRational;
     /// let layout = VariableLayout::new(&[1]);
     /// let p = ParametricPolynomial::parse("x1_0^2 + (1 - 2*psi)*x1_1^2", &layout, "psi").unwrap();
     /// assert_eq!(p.parameter_degree(), 1);
     /// let at2 = p.eval(&BigRational::from_integer(2.into()));
-    /// assert_eq!(at2.to_text(&layout), "x1_0^2 - 3*x1_1^2");
+    /// assert_eq!(at2, Polynomial::parse("x1_0^2 - 3*x1_1^2", &layout).unwrap());
     /// ```
     pub fn parse(text: &str, layout: &VariableLayout, parameter: &str) -> Result<Self, PolyError> {
         assert!(
@@ -456,5 +456,22 @@ mod tests {
         assert!(!is_valid_parameter_name("x1_0"));
         assert!(!is_valid_parameter_name("2a"));
         assert!(!is_valid_parameter_name(""));
+    }
+
+    #[test]
+    fn arbitrary_text_never_panics() {
+        use rand::{Rng, SeedableRng};
+        let layout = VariableLayout::new(&[1, 2]);
+        let alphabet: Vec<char> = "x12_0^*+-/()psi 39".chars().collect();
+        let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(4);
+        for _ in 0..5000 {
+            let n = rng.gen_range(0..24);
+            let text: String = (0..n)
+                .map(|_| alphabet[rng.gen_range(0..alphabet.len())])
+                .collect();
+            if let Ok(p) = ParametricPolynomial::parse(&text, &layout, "psi") {
+                let _ = p.eval(&q(3));
+            }
+        }
     }
 }
