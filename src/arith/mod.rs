@@ -2,7 +2,8 @@
 //!
 //! Computes ranks, kernels, echelon forms and products of sparse matrices ([`sparse`]), with
 //! dense textbook twins for cross-checking ([`dense`]) and multi-modular / certified exact
-//! rank over Q ([`certify`]); the scalar fields live in [`field`].
+//! rank over Q ([`certify`]), univariate polynomials, rational functions and rational interpolation
+//! ([`interpolate`]); the scalar fields live in [`field`].
 //! Invariant kept throughout: sparse vectors are sorted by strictly increasing index and hold
 //! no explicit zeros, and all field elements are canonical, so every answer is exact (no
 //! floating point is used anywhere).
@@ -10,6 +11,7 @@
 pub mod certify;
 pub mod dense;
 pub mod field;
+pub mod interpolate;
 pub mod sparse;
 
 pub use certify::{
@@ -18,6 +20,10 @@ pub use certify::{
 };
 pub use dense::{kernel_dense_naive, rank_dense_naive, rref_dense};
 pub use field::{Field, LARGE_PRIMES, PrimeField, RationalField, ShoupScalar, is_prime_u64};
+pub use interpolate::{
+    RationalFunction, UniPoly, interpolate_polynomial, rational_interpolate,
+    rational_interpolate_linear, rational_roots,
+};
 pub use sparse::{
     Echelon, PivotRows, SparseMatrix, SparseVec, back_substitute, echelon, fully_reduce,
     is_valid_vec, kernel_basis, kernel_from_reduced, mat_mul, mat_vec, normalize_vec, rank, reduce,

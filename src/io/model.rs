@@ -4,8 +4,13 @@
 //! [`Model`], so a `Model` always holds a valid Calabi-Yau [`Configuration`], polynomials of the declared
 //! multidegrees (all equations or none), line bundles of the right length and rank, and a Kähler point with
 //! positive entries. Errors name the offending field.
+//!
+//! A model may name one symbolic coefficient (`[cohomology] parameter = "psi"`): the polynomials are then kept as
+//! [`ParametricPolynomial`]s ([`Model::parameter`]) and [`Model::polynomials`] holds their specialisation at
+//! `parameter_value` (default 0), which must itself be a valid equation.
 
 use crate::geometry::{ConfigError, Configuration};
+use crate::poly::parametric::{ParametricPolynomial, is_valid_parameter_name};
 use crate::poly::{PolyError, Polynomial, VariableLayout};
 use num_bigint::BigInt;
 use num_rational::BigRational;
@@ -94,6 +99,19 @@ pub struct RawCohomology {
     /// `"generic"` or `"given"`.
     pub mode: Option<String>,
     pub seed: Option<u64>,
+    /// Name of the one symbolic coefficient allowed in the polynomials, e.g. `"psi"`.
+    pub parameter: Option<String>,
+    /// The value used where one member is needed (integer or string like `"3/2"`; default 0).
+    pub parameter_value: Option<toml::Value>,
+}
+
+/// The symbolic parameter of a model: its name, the parametric polynomials and the value of the member held by
+/// [`Model::polynomials`].
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct ModelParameter {
+    pub name: String,
+    pub polynomials: Vec<ParametricPolynomial>,
+    pub value: BigRational,
 }
 
 /// How the defining polynomials are chosen for cohomology computations.
@@ -117,6 +135,7 @@ pub struct Model {
     kahler_point: Option<Vec<BigRational>>,
     mode: Option<PolynomialMode>,
     seed: Option<u64>,
+    parameter: Option<ModelParameter>,
     symmetry: Option<toml::Value>,
 }
 
@@ -180,6 +199,24 @@ impl Model {
             .iter()
             .map(|e| e.polynomial.as_ref())
             .collect();
+        let parameter_name = raw.cohomology.as_ref().and_then(|c| c.parameter.clone());
+        if let Some(name) = &parameter_name {
+            if !is_valid_parameter_name(name) {
+                return Err(ModelError::Invalid {
+                    field: "cohomology.parameter".into(),
+                    message: format!(
+                        "{name:?} is not a parameter name: use a letter followed by letters, digits or '_' (at most 32), not a coordinate name like x1_0"
+                    ),
+                });
+            }
+            if given.iter().any(Option::is_none) {
+                return Err(ModelError::Invalid {
+                    field: "cohomology.parameter".into(),
+                    message: "a parameter needs a polynomial in every equation".into(),
+                });
+            }
+        }
+        let mut parameter = None;
         let polynomials = if given.iter().all(Option::is_none) {
             None
         } else if let Some(missing) = given.iter().position(Option::is_none) {
@@ -187,7 +224,50 @@ impl Model {
                 field: format!("equations[{missing}].polynomial"),
                 message: "either every equation gives a polynomial or none does".into(),
             });
+        } else if let Some(name) = parameter_name {
+            let value = match raw
+                .cohomology
+                .as_ref()
+                .and_then(|c| c.parameter_value.as_ref())
+            {
+                None => BigRational::zero(),
+                Some(v) => parse_rational_value(v).map_err(|message| ModelError::Invalid {
+                    field: "cohomology.parameter_value".into(),
+                    message,
+                })?,
+            };
+            let mut family = Vec::new();
+            let mut out = Vec::new();
+            for (index, (text, q)) in given.iter().zip(config.equations()).enumerate() {
+                let p = ParametricPolynomial::parse(text.expect("checked above"), &layout, &name)
+                    .and_then(|p| p.check_multidegree(&layout, q).map(|_| p))
+                    .map_err(|source| ModelError::Polynomial { index, source })?;
+                let at = p.eval(&value);
+                at.check_equation(&layout, q)
+                    .map_err(|source| ModelError::Invalid {
+                        field: format!("equations[{index}].polynomial"),
+                        message: format!(
+                            "at {name} = {value} (cohomology.parameter_value): {source}"
+                        ),
+                    })?;
+                family.push(p);
+                out.push(at);
+            }
+            parameter = Some(ModelParameter {
+                name,
+                polynomials: family,
+                value,
+            });
+            Some(out)
         } else {
+            if let Some(c) = &raw.cohomology
+                && c.parameter_value.is_some()
+            {
+                return Err(ModelError::Invalid {
+                    field: "cohomology.parameter_value".into(),
+                    message: "needs cohomology.parameter".into(),
+                });
+            }
             let mut out = Vec::new();
             for (index, (text, q)) in given.iter().zip(config.equations()).enumerate() {
                 let p = Polynomial::parse(text.expect("checked above"), &layout)
@@ -285,6 +365,7 @@ impl Model {
             kahler_point,
             mode,
             seed,
+            parameter,
             symmetry: raw.symmetry,
         })
     }
@@ -312,6 +393,10 @@ impl Model {
         } else {
             PolynomialMode::Generic
         })
+    }
+    /// The symbolic parameter, when the file names one (`cohomology.parameter`).
+    pub fn parameter(&self) -> Option<&ModelParameter> {
+        self.parameter.as_ref()
     }
     /// The seed for generic coefficients, when the file fixes one.
     pub fn seed(&self) -> Option<u64> {
@@ -410,5 +495,57 @@ point = [1, "3/2", 2, 1]
         let bad = GOOD.replace("[2, 2, 2, 2]", "[2, 2, 2, 1]");
         let e = Model::from_toml_str(&bad, "x").unwrap_err().to_string();
         assert!(e.contains("not Calabi-Yau"), "{e}");
+    }
+
+    const FAMILY: &str = r#"
+[ambient]
+dims = [1, 1]
+[[equations]]
+multidegree = [2, 2]
+polynomial = "x1_0^2*x2_0^2 + x1_1^2*x2_1^2 + (1 - psi)*x1_0*x1_1*x2_0*x2_1"
+[cohomology]
+mode = "given"
+parameter = "psi"
+parameter_value = "3/2"
+"#;
+
+    #[test]
+    fn loads_a_parameter_and_its_member() {
+        // P1×P1 with a (2,2) curve is not a threefold but is a valid Calabi-Yau configuration (an elliptic curve).
+        let m = Model::from_toml_str(FAMILY, "x").unwrap();
+        let par = m.parameter().unwrap();
+        assert_eq!(par.name, "psi");
+        assert_eq!(par.value, BigRational::new(3.into(), 2.into()));
+        let layout = VariableLayout::new(&[1, 1]);
+        let expected = Polynomial::parse(
+            "x1_0^2*x2_0^2 + x1_1^2*x2_1^2 - 1/2*x1_0*x1_1*x2_0*x2_1",
+            &layout,
+        );
+        assert_eq!(m.polynomials().unwrap()[0], expected.unwrap());
+        // The default value 0 is used without parameter_value.
+        let m =
+            Model::from_toml_str(&FAMILY.replace("parameter_value = \"3/2\"\n", ""), "x").unwrap();
+        assert!(m.parameter().unwrap().value.is_zero());
+        // Bad names, a degenerate member and a stray value are refused with the field named.
+        let e = Model::from_toml_str(&FAMILY.replace("\"psi\"", "\"x1_0\""), "x")
+            .unwrap_err()
+            .to_string();
+        assert!(e.contains("cohomology.parameter"), "{e}");
+        let degenerate = FAMILY
+            .replace("x1_0^2*x2_0^2 + x1_1^2*x2_1^2 + ", "psi*x1_0^2*x2_0^2 + ")
+            .replace("\"3/2\"", "0");
+        let e = Model::from_toml_str(&degenerate, "x")
+            .unwrap_err()
+            .to_string();
+        assert!(e.contains("at psi = 0"), "{e}");
+        let stray = FAMILY
+            .replace("parameter = \"psi\"\n", "")
+            .replace("(1 - psi)", "2");
+        let e = Model::from_toml_str(&stray, "x").unwrap_err().to_string();
+        assert!(e.contains("cohomology.parameter_value"), "{e}");
+        let e = Model::from_toml_str(&FAMILY.replace("psi)", "phi)"), "x")
+            .unwrap_err()
+            .to_string();
+        assert!(e.contains("unknown name"), "{e}");
     }
 }

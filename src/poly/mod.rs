@@ -14,6 +14,9 @@
 //! factor     := 'x' INTEGER '_' INTEGER ['^' INTEGER]
 //! ```
 //! Whitespace is ignored. Example: `x1_0^2*x2_1 - 3/2*x1_1*x2_0 + 7*x1_0*x1_1*x2_0`.
+//! Coefficients that depend on a named symbolic parameter are parsed by [`parametric::ParametricPolynomial`].
+
+pub mod parametric;
 
 use num_bigint::BigInt;
 use num_rational::BigRational;
