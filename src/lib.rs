@@ -14,4 +14,5 @@ pub mod cohomology;
 pub mod geometry;
 pub mod io;
 pub mod poly;
+pub mod scan;
 pub mod slope;
