@@ -176,8 +176,8 @@ pub struct CatalogJob {
 }
 
 impl CatalogJob {
-    /// A directory (every `*.toml` inside, sorted by name) or a list file (one path per line, relative to the
-    /// list's folder; blank lines and `#` comments skipped).
+    /// A directory (every `*.toml` inside, sorted by name), a single model file (`*.toml`), or a list file (one
+    /// path per line, relative to the list's folder; blank lines and `#` comments skipped).
     pub fn new(source: &Path, settings: FilterSettings) -> Result<Self, ScanError> {
         let io = |e: std::io::Error| ScanError::Io(format!("{}: {e}", source.display()));
         let mut paths: Vec<PathBuf> = if source.is_dir() {
@@ -188,6 +188,8 @@ impl CatalogJob {
                 .collect();
             v.sort();
             v
+        } else if source.extension().is_some_and(|x| x == "toml") {
+            vec![source.to_path_buf()]
         } else {
             let text = std::fs::read_to_string(source).map_err(io)?;
             let base = source.parent().unwrap_or(Path::new("."));
