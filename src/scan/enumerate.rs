@@ -88,6 +88,9 @@ pub fn canonical_form(perms: &[Vec<usize>], bundles: &[Vec<i64>]) -> Vec<Vec<i64
     })
 }
 
+/// The callback receiving each canonical sum.
+pub type Visit<'a, E> = dyn FnMut(&[Vec<i64>]) -> Result<(), E> + 'a;
+
 /// Counters of the enumeration (deterministic).
 #[derive(Clone, Debug, Default, PartialEq, Eq, serde::Serialize, serde::Deserialize)]
 pub struct EnumerationCounts {
@@ -251,7 +254,7 @@ impl Enumerator {
         &self,
         c: usize,
         counts: &mut EnumerationCounts,
-        visit: &mut dyn FnMut(&[Vec<i64>]) -> Result<(), E>,
+        visit: &mut Visit<'_, E>,
     ) -> Result<(), E> {
         let (a, b) = self.chunks[c];
         let mut seq = vec![a, b];
@@ -307,7 +310,7 @@ impl Enumerator {
         chi: i64,
         counts: &mut EnumerationCounts,
         scratch: &mut Vec<u32>,
-        visit: &mut dyn FnMut(&[Vec<i64>]) -> Result<(), E>,
+        visit: &mut Visit<'_, E>,
     ) -> Result<(), E> {
         let last = *seq.last().expect("non-empty prefix");
         let remaining = self.rank - seq.len();

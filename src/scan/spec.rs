@@ -249,7 +249,7 @@ mod tests {
         assert_eq!(s.settings.filters, vec![Filter::C1, Filter::Index]);
         assert_eq!(s.settings.target_index(), -3);
         for (bad, needle) in [
-            (format!("{BASE}"), "missing [scan]"),
+            (BASE.to_string(), "missing [scan]"),
             (
                 format!("{BASE}[scan]\nrank = 6\nentries = [-1,1]\n"),
                 "rank",
