@@ -206,7 +206,6 @@ impl CatalogJob {
             )));
         }
         if paths.len() > MAX_CATALOG {
-            paths.truncate(0);
             return Err(ScanError::Spec(format!(
                 "catalog larger than {MAX_CATALOG} models"
             )));
