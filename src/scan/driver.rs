@@ -180,7 +180,7 @@ impl CatalogJob {
     /// path per line, relative to the list's folder; blank lines and `#` comments skipped).
     pub fn new(source: &Path, settings: FilterSettings) -> Result<Self, ScanError> {
         let io = |e: std::io::Error| ScanError::Io(format!("{}: {e}", source.display()));
-        let mut paths: Vec<PathBuf> = if source.is_dir() {
+        let paths: Vec<PathBuf> = if source.is_dir() {
             let mut v: Vec<PathBuf> = std::fs::read_dir(source)
                 .map_err(io)?
                 .filter_map(|e| e.ok().map(|e| e.path()))
