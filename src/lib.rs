@@ -15,4 +15,5 @@ pub mod couplings;
 pub mod geometry;
 pub mod io;
 pub mod poly;
+pub mod scan;
 pub mod slope;

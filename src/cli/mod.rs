@@ -6,6 +6,7 @@ mod args;
 mod box_scan;
 mod render;
 mod report;
+mod scan;
 
 use args::{ConfigArgs, Inputs};
 use clap::{Parser, Subcommand};
@@ -75,6 +76,16 @@ enum Command {
         #[arg(long)]
         json: bool,
     },
+    /// Screen an enumerated box of line-bundle sums (scan file) or a catalog: survivors and the filter funnel.
+    Scan(scan::ScanArgs),
+    /// Combine the outputs of the shards of one scan into the unsharded output.
+    Merge {
+        /// Shard output files (JSON Lines from scan -o).
+        files: Vec<PathBuf>,
+        /// Write the merged output atomically to this file instead of stdout.
+        #[arg(short = 'o', long, value_name = "FILE")]
+        output: Option<PathBuf>,
+    },
     /// Intersection numbers, c2(TX), Euler number and index data of the Calabi-Yau.
     Geometry {
         #[command(flatten)]
@@ -123,6 +134,8 @@ pub fn run() -> i32 {
 
 fn dispatch(cli: Cli) -> Result<String, UserError> {
     match cli.command {
+        Command::Scan(a) => scan::run(a),
+        Command::Merge { files, output } => scan::merge(&files, output.as_deref()),
         Command::Geometry { config, json } => {
             let inputs = Inputs::from_args(&config)?;
             let geometry = Geometry::new(inputs.config());

@@ -591,6 +591,26 @@ impl System {
         }
     }
 
+    /// Only the cheap exact obstructions (one slope of constant sign, then a combination of constant sign),
+    /// the first step of [`System::certify`].
+    pub(super) fn obstruction(&self) -> Option<NoneCertificate> {
+        for a in 0..self.r {
+            if let Some(sign) = Self::sign_of_matrix(&self.mats[a]) {
+                return Some(NoneCertificate::SignObstruction { bundle: a, sign });
+            }
+        }
+        self.combination_obstruction()
+            .map(|terms| NoneCertificate::CombinationObstruction {
+                combination: terms
+                    .into_iter()
+                    .map(|(bundle, c)| Term {
+                        bundle,
+                        coeff: big_to_rat(&c),
+                    })
+                    .collect(),
+            })
+    }
+
     /// Runs the strategies in order; see [`super::certify_slope_zero`].
     pub(super) fn certify(&self, opts: &SlopeOptions) -> SlopeZero {
         for a in 0..self.r {

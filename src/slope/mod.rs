@@ -342,6 +342,18 @@ pub fn certify_slope_zero(
     Ok(sys.certify(opts))
 }
 
+/// The cheap exact obstructions alone: a slope `μ_a` of constant strict sign on the open cone, else a
+/// combination `Σ λ_a μ_a` of constant strict sign (the first step of [`certify_slope_zero`]). `Some` is a
+/// proof that no common zero exists; `None` decides nothing. Same preconditions and errors as
+/// [`certify_slope_zero`]; cost `O(r m^2)` plus the bounded vertex search of the combination step.
+pub fn slope_obstruction(
+    triple: &[Vec<Vec<i64>>],
+    bundles: &[Vec<i64>],
+) -> Result<Option<NoneCertificate>, SlopeError> {
+    let sys = certify::System::new(triple, bundles)?;
+    Ok(sys.obstruction())
+}
+
 /// Independently re-checks a result in exact arithmetic.
 ///
 /// * `rational_point`: all coordinates `> 0`, every `μ_a(t) == 0`.
