@@ -4,6 +4,7 @@
 
 mod args;
 mod box_scan;
+mod export;
 mod render;
 
 use args::{ConfigArgs, Inputs};
@@ -71,6 +72,22 @@ enum Command {
         #[arg(long)]
         json: bool,
     },
+    /// Write everything exact a numerical solver needs (representatives as Dolbeault-form data) to one file.
+    Export {
+        /// The model file (TOML) with a [bundle] section.
+        model: PathBuf,
+        /// The output file (written atomically).
+        #[arg(short = 'o', long = "output", value_name = "FILE")]
+        output: PathBuf,
+        /// "json" (default) or "npz" (NumPy arrays of the numeric parts).
+        #[arg(long, default_value = "json")]
+        format: String,
+        #[command(flatten)]
+        poly: args::PolyArgs,
+        /// Print a one-line JSON summary instead of text.
+        #[arg(long)]
+        json: bool,
+    },
     /// Intersection numbers, c2(TX), Euler number and index data of the Calabi-Yau.
     Geometry {
         #[command(flatten)]
@@ -129,6 +146,13 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                 Ok(render::geometry_table(&summary))
             }
         }
+        Command::Export {
+            model,
+            output,
+            format,
+            poly,
+            json,
+        } => export::run(&model, &output, &format, &poly, json),
         Command::Cohomology {
             config,
             poly,
