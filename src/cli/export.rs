@@ -34,6 +34,7 @@ pub fn run(
     output: &Path,
     format: &str,
     poly: &PolyArgs,
+    with_duals: bool,
     json: bool,
 ) -> Result<String, UserError> {
     let started = std::time::Instant::now();
@@ -56,7 +57,8 @@ pub fn run(
         .to_vec();
     let sum = super::args::bundle_sum(&inputs, None)?;
     let analysis = analysis::analyse(&engine, &sum)?;
-    let export: Export = build_export(inputs.name(), &engine, &analysis, &line_bundles)?;
+    let export: Export =
+        build_export(inputs.name(), &engine, &analysis, &line_bundles, with_duals)?;
     let bytes = match format {
         "json" => {
             let mut s = serde_json::to_string(&export)?;

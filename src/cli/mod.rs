@@ -84,6 +84,9 @@ enum Command {
         format: String,
         #[command(flatten)]
         poly: args::PolyArgs,
+        /// Also export, per multiplet, a basis of the Serre-dual space H^2(X, L^*).
+        #[arg(long)]
+        with_duals: bool,
         /// Print a one-line JSON summary instead of text.
         #[arg(long)]
         json: bool,
@@ -151,8 +154,9 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
             output,
             format,
             poly,
+            with_duals,
             json,
-        } => export::run(&model, &output, &format, &poly, json),
+        } => export::run(&model, &output, &format, &poly, with_duals, json),
         Command::Cohomology {
             config,
             poly,

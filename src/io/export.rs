@@ -132,6 +132,9 @@ pub struct ExportMultiplet {
     pub line_bundle: Vec<i64>,
     /// `count` classes of `H^1(X, line_bundle)`.
     pub classes: Vec<ExportClass>,
+    /// With `--with-duals`: a basis of the Serre-dual space `H^2(X, line_bundle^*)`.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub dual_classes: Option<Vec<ExportClass>>,
 }
 
 /// The whole export (see docs/export-schema.md for every key).
@@ -271,12 +274,14 @@ fn export_class(c: ClassRepresentative, k: &[i64], equations: &[Vec<u32>]) -> Ex
 }
 
 /// Assemble the export of an analysed model. `model` is the model's name. Representatives are computed for
-/// every present multiplet (once per distinct line bundle).
+/// every present multiplet (once per distinct line bundle); with `with_duals` also a basis of `H^2(X, L^*)` for
+/// each multiplet's `L`.
 pub fn build_export(
     model: &str,
     engine: &CohomologyEngine,
     analysis: &ModelAnalysis,
     line_bundles: &[Vec<i64>],
+    with_duals: bool,
 ) -> Result<Export, CohomologyError> {
     let config = engine.config();
     let layout = VariableLayout::new(config.dims());
@@ -305,20 +310,26 @@ pub fn build_export(
             .collect(),
     };
     let mut reps: HashMap<Vec<i64>, Vec<ClassRepresentative>> = HashMap::new();
+    let mut classes_of = |k: &[i64], degree: usize| -> Result<Vec<ExportClass>, CohomologyError> {
+        if !reps.contains_key(k) {
+            reps.insert(k.to_vec(), engine.representatives(k)?);
+        }
+        Ok(reps[k]
+            .iter()
+            .filter(|c| c.degree == degree)
+            .cloned()
+            .map(|c| export_class(c, k, config.equations()))
+            .collect())
+    };
     let mut multiplets = Vec::new();
     for m in analysis.spectrum.present() {
-        if !reps.contains_key(&m.line_bundle) {
-            reps.insert(
-                m.line_bundle.clone(),
-                engine.representatives(&m.line_bundle)?,
-            );
-        }
-        let classes = reps[&m.line_bundle]
-            .iter()
-            .filter(|c| c.degree == 1)
-            .cloned()
-            .map(|c| export_class(c, &m.line_bundle, config.equations()))
-            .collect();
+        let classes = classes_of(&m.line_bundle, 1)?;
+        let dual_classes = if with_duals {
+            let dual: Vec<i64> = m.line_bundle.iter().map(|&x| -x).collect();
+            Some(classes_of(&dual, 2)?)
+        } else {
+            None
+        };
         multiplets.push(ExportMultiplet {
             label: m.label.clone(),
             kind: m.kind.clone(),
@@ -326,6 +337,7 @@ pub fn build_export(
             count: m.count,
             line_bundle: m.line_bundle.clone(),
             classes,
+            dual_classes,
         });
     }
     let kahler_point = match (&analysis.slope_zero, &analysis.geometry.triple) {
