@@ -292,7 +292,10 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                     ));
                 }
                 match &analysis {
-                    Some(a) => out.push_str(&render::spectrum_text(a)),
+                    Some(a) => {
+                        out.push_str(&render::spectrum_text(a));
+                        out.push_str(&export::report_section(&model, a));
+                    }
                     None => out.push_str(
                         "\n(no [bundle] section: consistency checks and spectrum skipped)\n",
                     ),
