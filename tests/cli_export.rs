@@ -2,6 +2,9 @@
 //! Python reader's d-bar check on every exported form, numpy loading of the npz form, and the Serre-duality
 //! pairing H^1(X, L) × H^2(X, L^*) → H^3(X, O_X) computed from the file alone.
 
+// Tensor sign formulas read best as index loops.
+#![allow(clippy::needless_range_loop)]
+
 mod common;
 
 use common::{assert_refused, sheafwright};
@@ -394,6 +397,11 @@ print("numpy ok", ex.shape, d["bott_exponents"].shape)
     println!("{text}");
 }
 
+/// A Čech–Koszul basis element: (Koszul set, faces, monomial).
+type TermKey = (Vec<usize>, Vec<Vec<usize>>, Vec<Vec<i64>>);
+/// A polynomial as (monomial per factor, coefficient) pairs.
+type FilePoly = Vec<(Vec<Vec<i64>>, BigRational)>;
+
 /// One Čech–Koszul term read from the file.
 struct Term {
     koszul: Vec<usize>,
@@ -424,8 +432,7 @@ fn terms(lift: &Value) -> Vec<Term> {
 /// vertex `l`, and `t` lowers the Koszul degree from `K+1`, which does not exist) and is 1 on the generator, so
 /// it is the coordinate of the class (`h^3(O_X) = 1`).
 fn pairing(u: &[Term], w: &[Term], dims: &[usize], k: usize) -> BigRational {
-    let mut index: HashMap<(Vec<usize>, Vec<Vec<usize>>, Vec<Vec<i64>>), &BigRational> =
-        HashMap::new();
+    let mut index: HashMap<TermKey, &BigRational> = HashMap::new();
     for t in w {
         index.insert(
             (t.koszul.clone(), t.faces.clone(), t.monomial.clone()),
@@ -550,11 +557,7 @@ fn serre_duality_pairing_from_the_file_alone() {
 /// The total differential `δ + t` of a single Čech–Koszul basis element, from the file's polynomials alone
 /// (MATH.md §3: `δ = Σ_i (−1)^{q_1+…+q_{i−1}} δ_i`, `δ_i[I] = Σ_{l∉I} σ(l, I)[I ∪ {l}]`,
 /// `σ(l, I) = (−1)^{#{i∈I : i<l}}`; `t = (−1)^q d_K`, `d_K(e_S) = Σ_pos (−1)^pos p_j e_{S∖j}`).
-fn total_differential(
-    y: &Term,
-    dims: &[usize],
-    polys: &[Vec<(Vec<Vec<i64>>, BigRational)>],
-) -> Vec<Term> {
+fn total_differential(y: &Term, dims: &[usize], polys: &[FilePoly]) -> Vec<Term> {
     let mut out = Vec::new();
     let mut before = 0usize;
     for i in 0..dims.len() {
@@ -623,7 +626,7 @@ fn serre_pairing_is_blind_to_coboundaries() {
                 Some(r)
             })
             .collect();
-        let polys: Vec<Vec<(Vec<Vec<i64>>, BigRational)>> = v["polynomials"]["equations"]
+        let polys: Vec<FilePoly> = v["polynomials"]["equations"]
             .as_array()
             .unwrap()
             .iter()
