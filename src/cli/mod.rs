@@ -4,6 +4,7 @@
 
 mod args;
 mod box_scan;
+mod couplings;
 mod render;
 
 use args::{ConfigArgs, Inputs};
@@ -67,6 +68,25 @@ enum Command {
         /// Draw the Kähler cone, each slope's zero locus and the certificate to this SVG file.
         #[arg(long, value_name = "FILE.svg")]
         plot: Option<PathBuf>,
+        /// Print one JSON object instead of tables.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Coupling textures: operators from the branching, charge and type selection rules, exact Yukawa values.
+    Couplings {
+        #[command(flatten)]
+        config: ConfigArgs,
+        #[command(flatten)]
+        poly: args::PolyArgs,
+        /// Line bundles of the sum, entries comma separated, bundles separated by ';' (default: the model's).
+        #[arg(long, allow_hyphen_values = true)]
+        bundles: Option<String>,
+        /// For forbidden entries, list the products of up to N present singlets that would allow them.
+        #[arg(long, default_value_t = 0, value_name = "N")]
+        singlets: usize,
+        /// Print per-operator timings on stderr.
+        #[arg(long)]
+        timing: bool,
         /// Print one JSON object instead of tables.
         #[arg(long)]
         json: bool,
@@ -200,6 +220,21 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                 Ok(render::spectrum_text(&analysis))
             }
         }
+        Command::Couplings {
+            config,
+            poly,
+            bundles,
+            singlets,
+            timing,
+            json,
+        } => couplings::run(couplings::CouplingsArgs {
+            config,
+            poly,
+            bundles,
+            singlets,
+            timing,
+            json,
+        }),
         Command::Report { model, json } => {
             let inputs = Inputs::from_model_path(&model)?;
             let engine = args::PolyArgs::default().engine(&inputs)?;

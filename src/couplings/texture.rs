@@ -18,6 +18,10 @@
 //! * `not_computed` — allowed, but no value could be computed (the product bundle is not trivial because
 //!   `c1(V) ≠ 0`, or a lift was refused as too large); the reason is in the class's `warnings`.
 //!
+//! Textures are built for the two-factor and three-factor operators with at least one non-singlet factor;
+//! operators made of singlets only (`1 1`, `1 1 1`: the bundle-moduli potential) are listed with their
+//! allowed tuples but get no texture.
+//!
 //! Per texture: the **structural rank** (maximum bipartite matching of the not-forbidden pattern, with
 //! petgraph), the structural rank after the type theorem, the **rank** over Q when every entry is known
 //! exactly, and the exact **relations** (equal/opposite entries; equal, opposite, proportional or zero rows
@@ -369,7 +373,11 @@ pub fn couplings(
         let started = Instant::now();
         operators.push(summarise(&op, &spectrum)?);
         let mut tensors = 0;
+        let only_singlets = op.slots.iter().all(|k| {
+            derive_kind_role(group, k) == crate::bundle::branching::Role::Singlet
+        });
         match op.arity {
+            _ if only_singlets => {}
             2 => classes.extend(bilinear(&op, &spectrum, &singlets, options)?),
             3 => {
                 let ctx = Cubic {
@@ -401,6 +409,13 @@ pub fn couplings(
         classes,
         timings,
     })
+}
+
+fn derive_kind_role(group: crate::bundle::branching::GaugeGroup, kind: &str) -> crate::bundle::branching::Role {
+    crate::bundle::branching::branching_rule(group)
+        .into_iter()
+        .find(|t| t.gut.name == kind)
+        .map_or(crate::bundle::branching::Role::Gauge, |t| t.gut.role)
 }
 
 fn summarise(op: &Operator, spectrum: &Spectrum) -> Result<OperatorSummary, TextureError> {
