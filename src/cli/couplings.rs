@@ -152,11 +152,15 @@ pub fn text(report: &CouplingReport, compact: bool) -> String {
             );
         }
     }
-    if report.classes.is_empty() {
+    if report.all_forbidden_textures > 0 {
         let _ = writeln!(
             out,
-            "\n  no texture: no operator has all its multiplets present"
+            "\n  {} texture(s) with every entry forbidden by charge not shown (use --singlets N to list them with the singlets that switch entries on)",
+            report.all_forbidden_textures
         );
+    }
+    if report.classes.is_empty() {
+        let _ = writeln!(out, "\n  no texture with an allowed entry");
     }
     for c in &report.classes {
         let _ = writeln!(
@@ -176,10 +180,19 @@ pub fn text(report: &CouplingReport, compact: bool) -> String {
         if compact {
             continue;
         }
+        for between in ["rows", "columns"] {
+            let zero: Vec<&str> = c
+                .relations
+                .iter()
+                .filter(|r| r.kind == "zero" && r.between == between)
+                .map(|r| r.first.as_str())
+                .collect();
+            if !zero.is_empty() {
+                let _ = writeln!(out, "    zero {between}: {}", zero.join(", "));
+            }
+        }
         for rel in &c.relations {
-            if rel.kind == "zero" {
-                let _ = writeln!(out, "    relation: {} {} is zero", rel.between, rel.first);
-            } else {
+            if rel.kind != "zero" {
                 let _ = writeln!(
                     out,
                     "    relation ({}): {} = {} × {}  [{}]",

@@ -282,8 +282,11 @@ pub struct CouplingReport {
     pub warnings: Vec<String>,
     /// Every operator of the group with its allowed present tuples.
     pub operators: Vec<OperatorSummary>,
-    /// The textures.
+    /// The textures (a texture whose entries are all `forbidden_by_charge` is kept only when singlet
+    /// insertions were asked for).
     pub classes: Vec<CouplingClass>,
+    /// Number of textures left out because every entry is `forbidden_by_charge`.
+    pub all_forbidden_textures: usize,
     /// Per-operator timings.
     #[serde(skip)]
     pub timings: Vec<OperatorTiming>,
@@ -369,6 +372,7 @@ pub fn couplings(
     let mut operators = Vec::new();
     let mut classes = Vec::new();
     let mut timings = Vec::new();
+    let mut all_forbidden_textures = 0;
     for op in enumerate_operators(group) {
         let started = Instant::now();
         operators.push(summarise(&op, &spectrum)?);
@@ -394,6 +398,15 @@ pub fn couplings(
             }
             _ => {}
         }
+        let before = classes.len();
+        classes.retain(|c: &CouplingClass| {
+            options.singlets > 0
+                || c
+                    .entries
+                    .iter()
+                    .any(|e| e.status != EntryStatus::ForbiddenByCharge)
+        });
+        all_forbidden_textures += before - classes.len();
         timings.push(OperatorTiming {
             operator: op.name.clone(),
             seconds: started.elapsed().as_secs_f64(),
@@ -407,6 +420,7 @@ pub fn couplings(
         warnings,
         operators,
         classes,
+        all_forbidden_textures,
         timings,
     })
 }
