@@ -6,7 +6,9 @@
 
 use super::UserError;
 use super::args::{ConfigArgs, Inputs, PolyArgs};
-use sheafwright::couplings::{CouplingClass, CouplingOptions, CouplingReport, EntryStatus, couplings};
+use sheafwright::couplings::{
+    CouplingClass, CouplingOptions, CouplingReport, EntryStatus, couplings,
+};
 use std::fmt::Write;
 
 /// Parsed flags of `couplings`.
@@ -61,7 +63,7 @@ pub fn run(a: CouplingsArgs) -> Result<String, UserError> {
     }
 }
 
-const LEGEND: &str = "legend: · forbidden_by_charge   τ vanishes_by_type (τ1+τ2+τ3 < K)   0 zero_computed   + allowed_by_charge (no holomorphic value)   ? not_computed   numbers: exact values";
+const LEGEND: &str = "legend: · forbidden_by_charge   * value (non-zero, shown in full by `couplings`)   τ vanishes_by_type (τ1+τ2+τ3 < K)   0 zero_computed   + allowed_by_charge (no holomorphic value)   ? not_computed   numbers: exact values";
 
 fn cell(c: &CouplingClass, r: usize, col: usize) -> String {
     let e = &c.entries[r * c.columns.len() + col];
@@ -98,6 +100,18 @@ fn matrix(out: &mut String, c: &CouplingClass, indent: &str) {
             let _ = write!(out, " {}", pad(&row[col], *w));
         }
         out.push('\n');
+    }
+}
+
+/// One symbol per entry (`*` for a non-zero value), rows and columns named once.
+fn compact_grid(out: &mut String, c: &CouplingClass) {
+    let _ = writeln!(out, "    rows:    {}", c.rows.join(" "));
+    let _ = writeln!(out, "    columns: {}", c.columns.join(" "));
+    for r in 0..c.rows.len() {
+        let line: String = (0..c.columns.len())
+            .map(|col| c.entries[r * c.columns.len() + col].status.symbol())
+            .collect();
+        let _ = writeln!(out, "    {line}");
     }
 }
 
@@ -173,7 +187,11 @@ pub fn text(report: &CouplingReport, compact: bool) -> String {
                 .unwrap_or_default(),
             ranks(c)
         );
-        matrix(&mut out, c, "    ");
+        if compact {
+            compact_grid(&mut out, c);
+        } else {
+            matrix(&mut out, c, "    ");
+        }
         for w in &c.warnings {
             let _ = writeln!(out, "    warning: {w}");
         }
@@ -200,7 +218,11 @@ pub fn text(report: &CouplingReport, compact: bool) -> String {
                 );
             }
         }
-        for e in c.entries.iter().filter(|e| !e.singlet_insertions.is_empty()) {
+        for e in c
+            .entries
+            .iter()
+            .filter(|e| !e.singlet_insertions.is_empty())
+        {
             let _ = writeln!(
                 out,
                 "    switched on by singlets: {}  ←  {}",

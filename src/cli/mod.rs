@@ -260,6 +260,18 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                 _ => None,
             }
             .filter(|_| analysis.is_some());
+            // Couplings of the model's bundle; a refusal (e.g. a lift too large) is shown, not fatal.
+            let coupling_report = match &analysis {
+                Some(_) => Some(
+                    sheafwright::couplings::couplings(
+                        &engine,
+                        &args::bundle_sum(&inputs, None)?,
+                        &sheafwright::couplings::CouplingOptions::default(),
+                    )
+                    .map_err(|e| e.to_string()),
+                ),
+                None => None,
+            };
             if json {
                 let mut report = serde_json::json!({
                     "schema": "sheafwright.report/1",
@@ -272,6 +284,11 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                 }
                 if let Some(check) = &kahler {
                     report["kahler_point"] = serde_json::to_value(check)?;
+                }
+                match &coupling_report {
+                    Some(Ok(c)) => report["couplings"] = serde_json::to_value(c)?,
+                    Some(Err(e)) => report["couplings"] = serde_json::json!({ "error": e }),
+                    None => {}
                 }
                 Ok(render::json_line(&report)?)
             } else {
@@ -303,6 +320,13 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                     None => out.push_str(
                         "\n(no [bundle] section: consistency checks and spectrum skipped)\n",
                     ),
+                }
+                match &coupling_report {
+                    Some(Ok(c)) => out.push_str(&couplings::text(c, true)),
+                    Some(Err(e)) => {
+                        out.push_str(&format!("\n== Couplings ==\n  not computed: {e}\n"))
+                    }
+                    None => {}
                 }
                 Ok(out)
             }

@@ -237,7 +237,10 @@ mod tests {
     fn cubic_operators_match_common_practice() {
         let su5 = names(GaugeGroup::Su5, 3);
         for want in ["10 10 5", "5bar 10 5bar", "1 5 5bar", "1 10 10bar"] {
-            assert!(su5.contains(&want.to_string()), "{want} missing from {su5:?}");
+            assert!(
+                su5.contains(&want.to_string()),
+                "{want} missing from {su5:?}"
+            );
         }
         for absent in ["10 10 10", "5 5 5", "10 10 5bar", "5bar 5bar 5bar"] {
             assert!(
@@ -253,14 +256,20 @@ mod tests {
         }
         let so10 = names(GaugeGroup::So10, 3);
         for want in ["16 16 10", "1 16 16bar", "16bar 16bar 10", "1 10 10"] {
-            assert!(so10.contains(&want.to_string()), "{want} missing from {so10:?}");
+            assert!(
+                so10.contains(&want.to_string()),
+                "{want} missing from {so10:?}"
+            );
         }
         assert!(!so10.iter().any(|n| n == "10 10 10" || n == "16 16bar 10"));
         let e6 = names(GaugeGroup::E6, 3);
         for want in ["27 27 27", "27bar 27bar 27bar", "1 27 27bar"] {
             assert!(e6.contains(&want.to_string()), "{want} missing from {e6:?}");
         }
-        assert!(!e6.iter().any(|n| n == "27 27 27bar" || n == "27 27bar 27bar"));
+        assert!(
+            !e6.iter()
+                .any(|n| n == "27 27 27bar" || n == "27 27bar 27bar")
+        );
     }
 
     /// Dimension-5 `10 10 10 5bar` and the Higgs bilinear `5 5bar` (common practice).
@@ -276,7 +285,10 @@ mod tests {
     #[test]
     fn centre_charges_from_branching() {
         let c = |g, k| centre_charge(g, k).unwrap();
-        assert_eq!((c(GaugeGroup::So10, "16") + c(GaugeGroup::So10, "16bar")) % 4, 0);
+        assert_eq!(
+            (c(GaugeGroup::So10, "16") + c(GaugeGroup::So10, "16bar")) % 4,
+            0
+        );
         assert_eq!(c(GaugeGroup::So10, "10"), 2);
         assert_eq!(c(GaugeGroup::So10, "1"), 0);
         assert_ne!(c(GaugeGroup::E6, "27"), 0);
@@ -290,7 +302,11 @@ mod tests {
         }
     }
 
-    fn su5_entry<'a>(t: &'a crate::bundle::branching::MultipletTable, kind: &str, idx: &[usize]) -> &'a [i64] {
+    fn su5_entry<'a>(
+        t: &'a crate::bundle::branching::MultipletTable,
+        kind: &str,
+        idx: &[usize],
+    ) -> &'a [i64] {
         &t.entries
             .iter()
             .find(|e| e.kind == kind && e.bundles == idx)

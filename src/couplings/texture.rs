@@ -62,7 +62,9 @@ pub enum TextureError {
     NotThreefold(usize),
     #[error("--singlets {0} is too large (limit {MAX_SINGLET_INSERTIONS})")]
     TooManySinglets(usize),
-    #[error("the {what} side of the {operator} texture has {size} classes (limit {MAX_TEXTURE_SIDE})")]
+    #[error(
+        "the {what} side of the {operator} texture has {size} classes (limit {MAX_TEXTURE_SIDE})"
+    )]
     TooLarge {
         operator: String,
         what: &'static str,
@@ -160,7 +162,10 @@ impl EntryStatus {
 
     /// Whether the exact value of the entry is known (zero included).
     pub fn is_known(self) -> bool {
-        !matches!(self, EntryStatus::AllowedByCharge | EntryStatus::NotComputed)
+        !matches!(
+            self,
+            EntryStatus::AllowedByCharge | EntryStatus::NotComputed
+        )
     }
 }
 
@@ -377,9 +382,10 @@ pub fn couplings(
         let started = Instant::now();
         operators.push(summarise(&op, &spectrum)?);
         let mut tensors = 0;
-        let only_singlets = op.slots.iter().all(|k| {
-            derive_kind_role(group, k) == crate::bundle::branching::Role::Singlet
-        });
+        let only_singlets = op
+            .slots
+            .iter()
+            .all(|k| derive_kind_role(group, k) == crate::bundle::branching::Role::Singlet);
         match op.arity {
             _ if only_singlets => {}
             2 => classes.extend(bilinear(&op, &spectrum, &singlets, options)?),
@@ -401,8 +407,7 @@ pub fn couplings(
         let before = classes.len();
         classes.retain(|c: &CouplingClass| {
             options.singlets > 0
-                || c
-                    .entries
+                || c.entries
                     .iter()
                     .any(|e| e.status != EntryStatus::ForbiddenByCharge)
         });
@@ -425,7 +430,10 @@ pub fn couplings(
     })
 }
 
-fn derive_kind_role(group: crate::bundle::branching::GaugeGroup, kind: &str) -> crate::bundle::branching::Role {
+fn derive_kind_role(
+    group: crate::bundle::branching::GaugeGroup,
+    kind: &str,
+) -> crate::bundle::branching::Role {
     crate::bundle::branching::branching_rule(group)
         .into_iter()
         .find(|t| t.gut.name == kind)
@@ -510,7 +518,14 @@ fn bilinear(
             });
         }
     }
-    Ok(vec![finish(op, None, rows.labels, cols.labels, entries, vec![])])
+    Ok(vec![finish(
+        op,
+        None,
+        rows.labels,
+        cols.labels,
+        entries,
+        vec![],
+    )])
 }
 
 struct Cubic<'a> {
@@ -595,9 +610,8 @@ impl Cubic<'_> {
                         entries.push(entry);
                         continue;
                     }
-                    let trivial = (0..rm.line_bundle.len()).all(|i| {
-                        rm.line_bundle[i] + cm.line_bundle[i] + hm.line_bundle[i] == 0
-                    });
+                    let trivial = (0..rm.line_bundle.len())
+                        .all(|i| rm.line_bundle[i] + cm.line_bundle[i] + hm.line_bundle[i] == 0);
                     entry.status = EntryStatus::NotComputed;
                     if !self.options.values {
                         push_unique(&mut warnings, "values not requested".to_string());
@@ -678,7 +692,10 @@ fn finish(
     };
     let full_rank = structural_rank(&pattern(&|s| s != EntryStatus::ForbiddenByCharge));
     let structural_rank_after_type = structural_rank(&pattern(&|s| {
-        !matches!(s, EntryStatus::ForbiddenByCharge | EntryStatus::VanishesByType)
+        !matches!(
+            s,
+            EntryStatus::ForbiddenByCharge | EntryStatus::VanishesByType
+        )
     }));
     let values: Option<Vec<Vec<BigRational>>> = if entries.iter().all(|e| e.status.is_known()) {
         (0..nr)

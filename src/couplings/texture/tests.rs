@@ -47,7 +47,9 @@ proptest! {
 #[test]
 fn structural_rank_known_patterns() {
     // A permutation pattern has full structural rank; a pattern with two rows supported on one column has 1.
-    let id: Vec<Vec<bool>> = (0..4).map(|r| (0..4).map(|c| (r + 1) % 4 == c).collect()).collect();
+    let id: Vec<Vec<bool>> = (0..4)
+        .map(|r| (0..4).map(|c| (r + 1) % 4 == c).collect())
+        .collect();
     assert_eq!(structural_rank(&id), 4);
     let col = vec![vec![true, false], vec![true, false]];
     assert_eq!(structural_rank(&col), 1);
@@ -85,7 +87,11 @@ fn relations_and_rank_on_a_known_matrix() {
     let entries: Vec<Entry> = vals
         .iter()
         .enumerate()
-        .flat_map(|(r, row)| row.iter().enumerate().map(move |(c, v)| entry(r, c, v.clone())))
+        .flat_map(|(r, row)| {
+            row.iter()
+                .enumerate()
+                .map(move |(c, v)| entry(r, c, v.clone()))
+        })
         .collect();
     let op = Operator {
         name: "test".into(),
@@ -108,17 +114,33 @@ fn relations_and_rank_on_a_known_matrix() {
         })
     };
     assert!(has("rows", "equal", "r0", "r1", "1"), "{:?}", c.relations);
-    assert!(has("rows", "proportional", "r0", "r2", "-3/2"), "{:?}", c.relations);
+    assert!(
+        has("rows", "proportional", "r0", "r2", "-3/2"),
+        "{:?}",
+        c.relations
+    );
     assert!(has("columns", "zero", "c2", "", "0"), "{:?}", c.relations);
-    assert!(has("columns", "proportional", "c0", "c1", "1/6"), "{:?}", c.relations);
-    assert!(has("entries", "equal", "r0 c0", "r1 c0", "1"), "{:?}", c.relations);
+    assert!(
+        has("columns", "proportional", "c0", "c1", "1/6"),
+        "{:?}",
+        c.relations
+    );
+    assert!(
+        has("entries", "equal", "r0 c0", "r1 c0", "1"),
+        "{:?}",
+        c.relations
+    );
     // A perturbation of the second row breaks the equality and raises the rank.
     let mut vals2 = vals.clone();
     vals2[1][1] = Some(q(1, 2));
     let entries: Vec<Entry> = vals2
         .iter()
         .enumerate()
-        .flat_map(|(r, row)| row.iter().enumerate().map(move |(c, v)| entry(r, c, v.clone())))
+        .flat_map(|(r, row)| {
+            row.iter()
+                .enumerate()
+                .map(move |(c, v)| entry(r, c, v.clone()))
+        })
         .collect();
     let c2 = finish(
         &op,
@@ -129,7 +151,11 @@ fn relations_and_rank_on_a_known_matrix() {
         vec![],
     );
     assert_eq!(c2.rank, Some(2));
-    assert!(!c2.relations.iter().any(|r| r.between == "rows" && r.second == "r1"));
+    assert!(
+        !c2.relations
+            .iter()
+            .any(|r| r.between == "rows" && r.second == "r1")
+    );
 }
 
 #[test]
@@ -140,7 +166,10 @@ fn rational_function_value_text() {
         denominator: vec![q(0, 1), q(1, 1)],
     };
     assert_eq!(v.to_string(), "(1 + (-2/3)*psi^2)/((1)*psi)");
-    assert_eq!(serde_json::to_value(&v).unwrap(), "(1 + (-2/3)*psi^2)/((1)*psi)");
+    assert_eq!(
+        serde_json::to_value(&v).unwrap(),
+        "(1 + (-2/3)*psi^2)/((1)*psi)"
+    );
     assert!(v.as_rational().is_none());
 }
 
@@ -149,10 +178,16 @@ fn demo(name: &str) -> (CohomologyEngine, BundleSum) {
         .join("catalogs-demo")
         .join(name);
     let model = Model::load(&path).unwrap();
-    let engine = CohomologyEngine::new(model.config(), PolynomialChoice::Generic { seed: 20_261_202 })
-        .unwrap();
-    let sum = BundleSum::new(model.config().num_factors(), model.line_bundles().unwrap().to_vec())
-        .unwrap();
+    let engine = CohomologyEngine::new(
+        model.config(),
+        PolynomialChoice::Generic { seed: 20_261_202 },
+    )
+    .unwrap();
+    let sum = BundleSum::new(
+        model.config().num_factors(),
+        model.line_bundles().unwrap().to_vec(),
+    )
+    .unwrap();
     (engine, sum)
 }
 
@@ -165,7 +200,11 @@ fn type_zero_demo_statuses() {
     let (engine, sum) = demo("tetraquadric-typezero.toml");
     let r = couplings(&engine, &sum, &CouplingOptions::default()).unwrap();
     assert!(!r.warnings.is_empty(), "the demo fails a consistency check");
-    let up: Vec<&CouplingClass> = r.classes.iter().filter(|c| c.operator == "10 10 5").collect();
+    let up: Vec<&CouplingClass> = r
+        .classes
+        .iter()
+        .filter(|c| c.operator == "10 10 5")
+        .collect();
     assert_eq!(up.len(), 4, "one texture per 5_{{1,2}} class");
     for c in up {
         for e in &c.entries {
@@ -189,7 +228,15 @@ fn type_zero_demo_statuses() {
 #[test]
 fn so10_demo_values_and_ranks() {
     let (engine, sum) = demo("tetraquadric-so10.toml");
-    let r = couplings(&engine, &sum, &CouplingOptions { singlets: 1, values: true }).unwrap();
+    let r = couplings(
+        &engine,
+        &sum,
+        &CouplingOptions {
+            singlets: 1,
+            values: true,
+        },
+    )
+    .unwrap();
     let mut valued = 0;
     for c in &r.classes {
         if let Some(rank) = c.rank {
@@ -202,7 +249,9 @@ fn so10_demo_values_and_ranks() {
                     valued += 1;
                     assert!(!e.value.as_ref().unwrap().as_rational().unwrap().is_zero());
                 }
-                EntryStatus::ZeroComputed | EntryStatus::VanishesByType => assert!(e.value.is_none()),
+                EntryStatus::ZeroComputed | EntryStatus::VanishesByType => {
+                    assert!(e.value.is_none())
+                }
                 _ => {}
             }
         }
@@ -223,6 +272,14 @@ fn so10_demo_values_and_ranks() {
 #[test]
 fn too_many_singlets_refused() {
     let (engine, sum) = demo("tetraquadric-e6.toml");
-    let err = couplings(&engine, &sum, &CouplingOptions { singlets: 9, values: true }).unwrap_err();
+    let err = couplings(
+        &engine,
+        &sum,
+        &CouplingOptions {
+            singlets: 9,
+            values: true,
+        },
+    )
+    .unwrap_err();
     assert!(err.to_string().contains("--singlets 9"));
 }
