@@ -11,6 +11,7 @@ pub mod analysis;
 pub mod arith;
 pub mod bundle;
 pub mod cohomology;
+pub mod couplings;
 pub mod geometry;
 pub mod io;
 pub mod poly;

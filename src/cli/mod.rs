@@ -4,6 +4,7 @@
 
 mod args;
 mod box_scan;
+mod couplings;
 mod export;
 mod render;
 
@@ -88,6 +89,25 @@ enum Command {
         #[arg(long)]
         with_duals: bool,
         /// Print a one-line JSON summary instead of text.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Coupling textures: operators from the branching, charge and type selection rules, exact Yukawa values.
+    Couplings {
+        #[command(flatten)]
+        config: ConfigArgs,
+        #[command(flatten)]
+        poly: args::PolyArgs,
+        /// Line bundles of the sum, entries comma separated, bundles separated by ';' (default: the model's).
+        #[arg(long, allow_hyphen_values = true)]
+        bundles: Option<String>,
+        /// For forbidden entries, list the products of up to N present singlets that would allow them.
+        #[arg(long, default_value_t = 0, value_name = "N")]
+        singlets: usize,
+        /// Print per-operator timings on stderr.
+        #[arg(long)]
+        timing: bool,
+        /// Print one JSON object instead of tables.
         #[arg(long)]
         json: bool,
     },
@@ -228,6 +248,21 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                 Ok(render::spectrum_text(&analysis))
             }
         }
+        Command::Couplings {
+            config,
+            poly,
+            bundles,
+            singlets,
+            timing,
+            json,
+        } => couplings::run(couplings::CouplingsArgs {
+            config,
+            poly,
+            bundles,
+            singlets,
+            timing,
+            json,
+        }),
         Command::Report { model, json } => {
             let inputs = Inputs::from_model_path(&model)?;
             let engine = args::PolyArgs::default().engine(&inputs)?;
@@ -253,6 +288,18 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                 _ => None,
             }
             .filter(|_| analysis.is_some());
+            // Couplings of the model's bundle; a refusal (e.g. a lift too large) is shown, not fatal.
+            let coupling_report = match &analysis {
+                Some(_) => Some(
+                    sheafwright::couplings::couplings(
+                        &engine,
+                        &args::bundle_sum(&inputs, None)?,
+                        &sheafwright::couplings::CouplingOptions::default(),
+                    )
+                    .map_err(|e| e.to_string()),
+                ),
+                None => None,
+            };
             if json {
                 let mut report = serde_json::json!({
                     "schema": "sheafwright.report/1",
@@ -265,6 +312,11 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                 }
                 if let Some(check) = &kahler {
                     report["kahler_point"] = serde_json::to_value(check)?;
+                }
+                match &coupling_report {
+                    Some(Ok(c)) => report["couplings"] = serde_json::to_value(c)?,
+                    Some(Err(e)) => report["couplings"] = serde_json::json!({ "error": e }),
+                    None => {}
                 }
                 Ok(render::json_line(&report)?)
             } else {
@@ -299,6 +351,13 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                     None => out.push_str(
                         "\n(no [bundle] section: consistency checks and spectrum skipped)\n",
                     ),
+                }
+                match &coupling_report {
+                    Some(Ok(c)) => out.push_str(&couplings::text(c, true)),
+                    Some(Err(e)) => {
+                        out.push_str(&format!("\n== Couplings ==\n  not computed: {e}\n"))
+                    }
+                    None => {}
                 }
                 Ok(out)
             }

@@ -534,6 +534,26 @@ impl<F: Field> Complex<'_, F> {
         out
     }
 
+    /// The projection `π'(x) = π(x) − π A h(x)` of a cochain to `E_1` coordinates (total degree, index,
+    /// coefficient; entries may repeat and must be summed). It is the chain map back to `(E_1, D)` of the
+    /// perturbation lemma, so a cocycle of `δ + t` goes to a `D`-cocycle in the same class, and
+    /// `π' ι' = id`. Only terms that can survive `π` are kept in the series.
+    pub fn pi_prime(&self, x: &Cochain<F::Elem>) -> Vec<(i64, usize, F::Elem)> {
+        let f = self.field;
+        let mut out = self.pi(x);
+        let hx = self.h(x);
+        if !hx.is_empty() {
+            for term in self.series(hx, true) {
+                out.extend(
+                    self.pi(&term)
+                        .into_iter()
+                        .map(|(m, i, c)| (m, i, f.neg(&c))),
+                );
+            }
+        }
+        out
+    }
+
     /// The total differential `δ + t` of the Čech–Koszul complex (zero on lifted classes).
     pub fn total_differential(&self, x: &Cochain<F::Elem>) -> Cochain<F::Elem> {
         let mut out = self.delta(x);

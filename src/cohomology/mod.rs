@@ -191,6 +191,49 @@ fn rational_text(c: &BigRational) -> String {
     c.to_string()
 }
 
+/// One basis class of `H^q(X, O_X(k))` on the `E_1` page: a `D`-cocycle of degree `q` and its type.
+#[derive(Clone, Debug, PartialEq)]
+pub struct BasisClass {
+    /// `E_1^q` coordinates (sorted, non-zero); its smallest index is its pivot.
+    pub vector: SparseVec<BigRational>,
+    /// The type τ: the Koszul degree `p` of the group holding the pivot.
+    pub class_type: usize,
+}
+
+/// The basis of `H^q` chosen from the `E_1` page, shared by [`CohomologyEngine::representatives`] and the
+/// couplings: the rows of the reduced row echelon form of `ker D` (pivot = smallest index, so the largest
+/// Koszul degree, by the [`E1Page`] order) whose pivot is not a pivot of `im D`. The reduced form makes the
+/// choice canonical for the span (it does not depend on how the kernel was found).
+pub fn class_basis(cx: &Complex<'_, RationalField>, q: i64) -> Vec<BasisClass> {
+    let page = cx.page;
+    let field = RationalField;
+    let n = page.dim(q);
+    if n == 0 {
+        return Vec::new();
+    }
+    let kernel: Vec<SparseVec<BigRational>> = if page.dim(q + 1) > 0 {
+        arith::kernel_basis(&field, &cx.differential_matrix(q))
+    } else {
+        (0..n).map(|i| vec![(i, BigRational::one())]).collect()
+    };
+    let image: Vec<SparseVec<BigRational>> = if page.dim(q - 1) > 0 {
+        cx.differential_matrix(q - 1).transpose().rows
+    } else {
+        vec![]
+    };
+    let z = arith::fully_reduce(&field, n, arith::echelon(&field, n, kernel));
+    let b = arith::echelon(&field, n, image);
+    z.pivots
+        .iter()
+        .zip(z.rows)
+        .filter(|(pivot, _)| !b.pivots.contains(pivot))
+        .map(|(pivot, row)| BasisClass {
+            class_type: page.locate(q, *pivot).0.p,
+            vector: row,
+        })
+        .collect()
+}
+
 impl CohomologyEngine {
     /// An engine for `config` with the given polynomial choice. Given polynomials must be one per equation and
     /// already checked against the declared multidegrees (the model loader does this).
@@ -461,29 +504,9 @@ impl CohomologyEngine {
         };
         let mut out = Vec::new();
         for q in 0..=self.config.dimension() as i64 {
-            let n = page.dim(q);
-            if n == 0 {
-                continue;
-            }
-            let dq = cx.differential_matrix(q);
-            let kernel: Vec<SparseVec<BigRational>> = if page.dim(q + 1) > 0 {
-                arith::kernel_basis(&field, &dq)
-            } else {
-                (0..n).map(|i| vec![(i, BigRational::one())]).collect()
-            };
-            let image: Vec<SparseVec<BigRational>> = if page.dim(q - 1) > 0 {
-                cx.differential_matrix(q - 1).transpose().rows
-            } else {
-                vec![]
-            };
-            let z = arith::echelon(&field, n, kernel);
-            let b = arith::echelon(&field, n, image);
-            for (pivot, row) in z.pivots.iter().zip(&z.rows) {
-                if b.pivots.contains(pivot) {
-                    continue;
-                }
-                let (g, _) = page.locate(q, *pivot);
-                let bott_terms = row
+            for class in class_basis(&cx, q) {
+                let bott_terms = class
+                    .vector
                     .iter()
                     .map(|(idx, c)| {
                         let (g, local) = page.locate(q, *idx);
@@ -495,11 +518,11 @@ impl CohomologyEngine {
                         }
                     })
                     .collect();
-                let lifted = cx.lift(q, row);
+                let lifted = cx.lift(q, &class.vector);
                 let (lift, lift_truncated) = self.render_cochain(&lifted);
                 out.push(ClassRepresentative {
                     degree: q as usize,
-                    class_type: g.p,
+                    class_type: class.class_type,
                     bott_terms,
                     lift,
                     lift_truncated,
@@ -507,6 +530,23 @@ impl CohomologyEngine {
             }
         }
         Ok(out)
+    }
+
+    /// The variable layout of the ambient coordinates.
+    pub fn layout(&self) -> &VariableLayout {
+        &self.layout
+    }
+
+    /// The `E_1` page of `O_X(k)` and the engine's polynomials over Q, after the size checks of
+    /// [`CohomologyEngine::cohomology`]: the ingredients of an exact [`Complex`] (used by the couplings).
+    pub fn rational_page(
+        &self,
+        k: &[i64],
+    ) -> Result<(E1Page, FieldPolys<BigRational>), CohomologyError> {
+        self.check_bundle(k)?;
+        let page = E1Page::new(&self.layout, self.config.equations(), k);
+        let polys = to_field_polys(&RationalField, &self.polys).expect("rationals");
+        Ok((page, polys))
     }
 
     fn koszul_list(&self, s: u32) -> Vec<usize> {

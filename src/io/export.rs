@@ -155,6 +155,13 @@ pub struct Export {
     pub multiplets: Vec<ExportMultiplet>,
     /// The dictionary conventions in words (normalisation, sign conventions, what is and is not fixed).
     pub dictionary: Dictionary,
+    /// The coupling textures ([`crate::couplings::couplings`]): statuses, exact values, ranks, relations. Entry
+    /// fields `"<label>#<n>"` name `multiplets[label].classes[n−1]` (the same basis). Absent when refused.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub couplings: Option<crate::couplings::CouplingReport>,
+    /// Why `couplings` is absent (e.g. a lift too large).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub couplings_error: Option<String>,
 }
 
 /// The conventions of the Čech-to-Dolbeault dictionary, stated in the file itself.
@@ -351,6 +358,18 @@ pub fn build_export(
         }
         _ => None,
     };
+    let (couplings, couplings_error) =
+        match crate::bundle::BundleSum::new(config.num_factors(), line_bundles.to_vec()) {
+            Ok(sum) => match crate::couplings::couplings(
+                engine,
+                &sum,
+                &crate::couplings::CouplingOptions::default(),
+            ) {
+                Ok(r) => (Some(r), None),
+                Err(e) => (None, Some(e.to_string())),
+            },
+            Err(e) => (None, Some(e.to_string())),
+        };
     Ok(Export {
         schema: EXPORT_SCHEMA.into(),
         version: EXPORT_VERSION,
@@ -370,6 +389,8 @@ pub fn build_export(
         spectrum: analysis.spectrum.clone(),
         multiplets,
         dictionary: Dictionary::standard(),
+        couplings,
+        couplings_error,
     })
 }
 

@@ -1,0 +1,588 @@
+//! Exact holomorphic Yukawa couplings `λ(ν_1, ν_2, ν_3) = ∫ Ω ∧ ν_1 ∧ ν_2 ∧ ν_3` for `ν_i ∈ H^1(X, O_X(k_i))`,
+//! `k_1 + k_2 + k_3 = 0`, computed over Q with the engine's polynomials (MATH.md §3, §5).
+//!
+//! Route: each basis class (the shared basis of [`crate::cohomology::class_basis`]) is lifted to a genuine
+//! Čech–Koszul cocycle `ι'(v)` of `δ + t`; the three lifts are multiplied with the cup product of the tensor
+//! product of DGAs (Alexander–Whitney on each factor's Čech complex, the exterior algebra on the Koszul side,
+//! Koszul signs between them — see [`cup_product`]); the product is a `δ + t` cocycle of the complex of
+//! `O_X`, and the chain map `π' = π − π A h` takes it to a `D`-cocycle of `E_1^3(O_X)`. `H^3(X, O_X)` is
+//! one-dimensional, spanned by the generator `g` = the Laurent monomial with every exponent −1 in
+//! `H^{dim A}(A, O_A(−Σ_j q_j)) e_1 ∧ … ∧ e_K`; λ is the number with `π'(z) − λ g ∈ im(D: E_1^2 → E_1^3)`.
+//!
+//! Invariants: all values of one [`CouplingEngine`] share the normalisation [`NORMALISATION`] (one common
+//! normalisation of Ω); λ depends only on the classes (not on the cocycle representatives: adding a
+//! `δ + t` coboundary to a lift leaves it unchanged, as the tests check); lifted bases are computed once per
+//! bundle and cached; every lift and product is refused beyond [`MAX_COCHAIN_TERMS`] terms.
+//!
+//! Observed laws (tested in `tests/couplings_invariants.rs`): swapping two slots changes the sign,
+//! `λ(ν_2, ν_1, ν_3) = −λ(ν_1, ν_2, ν_3)` (degree-1 classes anticommute under the graded-commutative cup
+//! product); rescaling every defining polynomial `p_j → c p_j` multiplies λ by `c^{τ_1+τ_2+τ_3−K}` for the
+//! canonical basis; λ = 0 when `τ_1+τ_2+τ_3 < K` (the vanishing theorem, from memory: Blesneag, Buchbinder,
+//! Lukas, "Holomorphic Yukawa couplings for complete intersection Calabi-Yau manifolds", JHEP 2017).
+
+use crate::arith::{self, Echelon, RationalField, SparseVec};
+use crate::cohomology::complex::{CechKey, Cochain, Complex, E1Page, FieldPolys};
+use crate::cohomology::{BasisClass, CohomologyEngine, CohomologyError, class_basis};
+use num_rational::BigRational;
+use num_traits::{One, Zero};
+use rustc_hash::FxHashMap as HashMap;
+use std::sync::{Arc, Mutex, OnceLock};
+use thiserror::Error;
+
+/// Largest number of Čech–Koszul terms of one lifted cocycle or one cup product.
+pub const MAX_COCHAIN_TERMS: usize = 2_000_000;
+
+/// The normalisation statement shared by every value (for the output).
+pub const NORMALISATION: &str = "λ(ν1,ν2,ν3) is the coefficient of the generator of H^3(X,O_X) ≅ H^dimA(A,O_A(−Σ_j q_j))·e_1∧…∧e_K given by the Laurent monomial with every exponent −1, in the projection π' of the cup product of the lifted Čech–Koszul cocycles (modulo the image of D); one common normalisation of Ω for all couplings of the model, with the model's polynomials";
+
+static Q: RationalField = RationalField;
+
+/// Why a coupling computation was refused.
+#[derive(Debug, Error, Clone, PartialEq, Eq)]
+#[non_exhaustive]
+pub enum CouplingError {
+    #[error(transparent)]
+    Cohomology(#[from] CohomologyError),
+    #[error(
+        "the line bundles {bundles:?} do not multiply to the trivial bundle (their sum is {sum:?}); a Yukawa coupling needs k1+k2+k3 = 0"
+    )]
+    NotTrivialProduct {
+        bundles: Vec<Vec<i64>>,
+        sum: Vec<i64>,
+    },
+    #[error(
+        "the {what} for bundles {bundles:?} has {size} Čech–Koszul terms, above the limit {limit}; too large to compute"
+    )]
+    TooLarge {
+        what: String,
+        bundles: Vec<Vec<i64>>,
+        size: usize,
+        limit: usize,
+    },
+    #[error("cannot normalise H^{degree}(X, O_X): {reason}")]
+    Normalisation { degree: usize, reason: String },
+    #[error("the given E_1 vector of bundle {bundle:?} in degree {degree} is not a D-cocycle")]
+    NotCocycle { bundle: Vec<i64>, degree: i64 },
+    #[error(
+        "the degrees {degrees:?} do not add up to dim X = {dim} (a pairing needs total degree dim X)"
+    )]
+    Degrees { degrees: Vec<usize>, dim: usize },
+    #[error(
+        "internal inconsistency: the projected product is not a multiple of the H^3 generator modulo im D"
+    )]
+    NotProportional,
+}
+
+/// All couplings `λ(ν_i, ν_j, ν_l)` of three line bundles, `ν_i` running over the canonical `H^1` bases.
+#[derive(Clone, Debug, PartialEq)]
+pub struct YukawaTensor {
+    /// The three bundles `k_1, k_2, k_3` (summing to zero).
+    pub bundles: [Vec<i64>; 3],
+    /// `h^1` of each bundle.
+    pub dims: [usize; 3],
+    /// The type τ of every basis class, per slot.
+    pub types: [Vec<usize>; 3],
+    /// Row-major `values[(i·dims[1] + j)·dims[2] + l]`.
+    pub values: Vec<BigRational>,
+    /// The normalisation statement ([`NORMALISATION`]).
+    pub normalisation: String,
+}
+
+impl YukawaTensor {
+    /// `λ(ν_i, ν_j, ν_l)`. Panics when an index is out of range (a broken precondition).
+    pub fn get(&self, i: usize, j: usize, l: usize) -> &BigRational {
+        assert!(
+            i < self.dims[0] && j < self.dims[1] && l < self.dims[2],
+            "YukawaTensor::get: index out of range"
+        );
+        &self.values[(i * self.dims[1] + j) * self.dims[2] + l]
+    }
+
+    /// True when every entry is zero.
+    pub fn is_zero(&self) -> bool {
+        self.values.iter().all(|v| v.is_zero())
+    }
+}
+
+/// The canonical basis of `H^q(X, O_X(k))` with its lifted cocycles.
+#[derive(Debug)]
+pub struct LiftedBasis {
+    pub bundle: Vec<i64>,
+    pub degree: i64,
+    /// The `E_1` page of the bundle.
+    pub page: E1Page,
+    /// The basis classes (same order as [`CohomologyEngine::representatives`] in this degree).
+    pub classes: Vec<BasisClass>,
+    /// `ι'(v)` for every class, cocycles of `δ + t`.
+    pub lifts: Vec<Cochain<BigRational>>,
+}
+
+impl LiftedBasis {
+    /// The types τ of the classes.
+    pub fn types(&self) -> Vec<usize> {
+        self.classes.iter().map(|c| c.class_type).collect()
+    }
+}
+
+/// The data fixing the projection to `H^{dim X}(X, O_X)`.
+struct Normalisation {
+    page: E1Page,
+    /// Echelon form of `im(D: E_1^{n−1} → E_1^n)`.
+    image: Echelon<BigRational>,
+    /// The generator reduced modulo the image (non-zero).
+    generator: SparseVec<BigRational>,
+}
+
+/// Computes couplings for one cohomology engine, caching lifted bases per (bundle, degree) and the
+/// normalisation of `H^3(X, O_X)`.
+pub struct CouplingEngine<'a> {
+    engine: &'a CohomologyEngine,
+    polys: FieldPolys<BigRational>,
+    bases: Mutex<HashMap<(Vec<i64>, i64), Arc<LiftedBasis>>>,
+    norm: OnceLock<Result<Arc<Normalisation>, CouplingError>>,
+}
+
+fn too_large(what: &str, bundles: &[&[i64]], size: usize) -> CouplingError {
+    CouplingError::TooLarge {
+        what: what.to_string(),
+        bundles: bundles.iter().map(|b| b.to_vec()).collect(),
+        size,
+        limit: MAX_COCHAIN_TERMS,
+    }
+}
+
+/// Parity of `#{(s, t) : s ∈ S, t ∈ T, s > t}`: the sign of `e_S ∧ e_T` against `e_{S∪T}`.
+fn wedge_odd(s: u32, t: u32) -> bool {
+    let mut n = 0u32;
+    let mut rest = t;
+    while rest != 0 {
+        let j = rest.trailing_zeros();
+        rest &= rest - 1;
+        n += (s >> (j + 1)).count_ones();
+    }
+    n % 2 == 1
+}
+
+/// The cup product of two Čech–Koszul cochains (the tensor product of DGAs, MATH.md §3):
+/// per factor `[I] ∪ [J] = [I ∪ J]` when `max I = min J` (else 0), monomials multiply; across factors the sign
+/// `(−1)^{Σ_{i>j} q_i(x) q_j(y)}` (`q_i = |I_i| − 1`); across the Koszul part `(−1)^{p(x)·q(y)}` times the sign of
+/// `e_S ∧ e_T` (0 when `S ∩ T ≠ ∅`). With `δ + t` this satisfies the Leibniz rule
+/// `D(xy) = D(x) y + (−1)^{|x|} x D(y)`, `|x| = q − p`. Returns `None` beyond `limit` terms.
+/// Cost: `O(|x| · (matching terms of y))`, terms of `y` indexed by their minimal vertices.
+pub fn cup_product(
+    x: &Cochain<BigRational>,
+    y: &Cochain<BigRational>,
+    limit: usize,
+) -> Option<Cochain<BigRational>> {
+    let mut index: HashMap<Vec<u8>, Vec<(&CechKey, &BigRational, Vec<u32>)>> = HashMap::default();
+    for (k, c) in y {
+        let mins: Vec<u8> = k.faces.iter().map(|f| f.trailing_zeros() as u8).collect();
+        let qs: Vec<u32> = k.faces.iter().map(|f| f.count_ones() - 1).collect();
+        index.entry(mins).or_default().push((k, c, qs));
+    }
+    let mut out: Cochain<BigRational> = Cochain::default();
+    let mut want: Vec<u8> = Vec::new();
+    for (kx, cx) in x {
+        want.clear();
+        want.extend(kx.faces.iter().map(|f| (63 - f.leading_zeros()) as u8));
+        let Some(list) = index.get(want.as_slice()) else {
+            continue;
+        };
+        let qx: Vec<u32> = kx.faces.iter().map(|f| f.count_ones() - 1).collect();
+        let px = kx.koszul.count_ones();
+        for (ky, cy, qy) in list {
+            if kx.koszul & ky.koszul != 0 {
+                continue;
+            }
+            // Σ_{i>j} q_i(x) q_j(y), and q(y).
+            let mut cross = 0u32;
+            let mut prefix_y = 0u32;
+            for (i, q) in qx.iter().enumerate() {
+                cross += q * prefix_y;
+                prefix_y += qy[i];
+            }
+            let odd = ((cross + px * prefix_y) % 2 == 1) ^ wedge_odd(kx.koszul, ky.koszul);
+            let key = CechKey {
+                exps: kx.exps.iter().zip(&ky.exps).map(|(a, b)| a + b).collect(),
+                faces: kx.faces.iter().zip(&ky.faces).map(|(a, b)| a | b).collect(),
+                koszul: kx.koszul | ky.koszul,
+            };
+            let v = cx * *cy;
+            let v = if odd { -v } else { v };
+            use std::collections::hash_map::Entry;
+            match out.entry(key) {
+                Entry::Vacant(e) => {
+                    e.insert(v);
+                }
+                Entry::Occupied(mut e) => {
+                    let s = e.get() + &v;
+                    if s.is_zero() {
+                        e.remove();
+                    } else {
+                        *e.get_mut() = s;
+                    }
+                }
+            }
+            if out.len() > limit {
+                return None;
+            }
+        }
+    }
+    Some(out)
+}
+
+impl<'a> CouplingEngine<'a> {
+    /// A coupling engine over `engine` (its configuration, polynomials and size limits).
+    pub fn new(engine: &'a CohomologyEngine) -> Self {
+        let polys = crate::cohomology::to_field_polys(&Q, engine.polynomials()).expect("rationals");
+        CouplingEngine {
+            engine,
+            polys,
+            bases: Mutex::new(HashMap::default()),
+            norm: OnceLock::new(),
+        }
+    }
+
+    /// The cohomology engine.
+    pub fn engine(&self) -> &CohomologyEngine {
+        self.engine
+    }
+
+    /// The exact complex of a lifted basis' bundle (for checks such as `total_differential`).
+    pub fn complex<'s>(&'s self, page: &'s E1Page) -> Complex<'s, RationalField> {
+        Complex {
+            field: &Q,
+            layout: self.engine.layout(),
+            page,
+            polys: &self.polys,
+        }
+    }
+
+    /// The canonical basis of `H^q(X, O_X(k))` with lifted cocycles, cached.
+    pub fn lifted_basis(&self, k: &[i64], q: i64) -> Result<Arc<LiftedBasis>, CouplingError> {
+        let key = (k.to_vec(), q);
+        if let Some(hit) = self.bases.lock().ok().and_then(|c| c.get(&key).cloned()) {
+            return Ok(hit);
+        }
+        let (page, _) = self.engine.rational_page(k)?;
+        let (classes, lifts) = {
+            let cx = self.complex(&page);
+            let classes = class_basis(&cx, q);
+            let mut lifts = Vec::with_capacity(classes.len());
+            for c in &classes {
+                let l = cx.lift(q, &c.vector);
+                if l.len() > MAX_COCHAIN_TERMS {
+                    return Err(too_large("lifted cocycle", &[k], l.len()));
+                }
+                lifts.push(l);
+            }
+            (classes, lifts)
+        };
+        let basis = Arc::new(LiftedBasis {
+            bundle: k.to_vec(),
+            degree: q,
+            page,
+            classes,
+            lifts,
+        });
+        if let Ok(mut c) = self.bases.lock() {
+            c.insert(key, basis.clone());
+        }
+        Ok(basis)
+    }
+
+    /// Lift an arbitrary `E_1^q` vector of `O_X(k)` (checked to be a `D`-cocycle) to a `δ + t` cocycle.
+    pub fn lift_vector(
+        &self,
+        k: &[i64],
+        q: i64,
+        v: &[(usize, BigRational)],
+    ) -> Result<Cochain<BigRational>, CouplingError> {
+        let (page, _) = self.engine.rational_page(k)?;
+        let cx = self.complex(&page);
+        if page.dim(q + 1) > 0 {
+            let d = cx.differential_matrix(q);
+            if !arith::mat_vec(&Q, &d, &v.to_vec()).is_empty() {
+                return Err(CouplingError::NotCocycle {
+                    bundle: k.to_vec(),
+                    degree: q,
+                });
+            }
+        }
+        let l = cx.lift(q, v);
+        if l.len() > MAX_COCHAIN_TERMS {
+            return Err(too_large("lifted cocycle", &[k], l.len()));
+        }
+        Ok(l)
+    }
+
+    fn normalisation(&self) -> Result<Arc<Normalisation>, CouplingError> {
+        self.norm
+            .get_or_init(|| self.build_normalisation().map(Arc::new))
+            .clone()
+    }
+
+    fn build_normalisation(&self) -> Result<Normalisation, CouplingError> {
+        let config = self.engine.config();
+        let n = config.dimension();
+        let kk = config.codimension();
+        let fail = |reason: String| CouplingError::Normalisation { degree: n, reason };
+        let zero = vec![0i64; config.num_factors()];
+        let (page, _) = self.engine.rational_page(&zero)?;
+        let top = n as i64;
+        let full = (1u32 << kk) - 1;
+        let group = page
+            .group(full)
+            .filter(|g| g.total_degree == top)
+            .ok_or_else(|| fail("E_1 has no top Koszul group H^dimA(A, O_A(−Σ q_j))".into()))?;
+        let monomial = vec![-1i32; self.engine.layout().nvars()];
+        let local = group.bott.position(&monomial).ok_or_else(|| {
+            fail("the monomial with every exponent −1 is not a basis element".into())
+        })?;
+        let gen_index = group.offset + local;
+        let dim = page.dim(top);
+        let cx = self.complex(&page);
+        if page.dim(top + 1) > 0 {
+            let d = cx.differential_matrix(top);
+            if !arith::mat_vec(&Q, &d, &vec![(gen_index, BigRational::one())]).is_empty() {
+                return Err(fail("the generator is not a D-cocycle".into()));
+            }
+        }
+        let image_rows = if page.dim(top - 1) > 0 {
+            cx.differential_matrix(top - 1).transpose().rows
+        } else {
+            Vec::new()
+        };
+        let image = arith::echelon(&Q, dim, image_rows);
+        let generator = arith::reduce(&Q, &image, vec![(gen_index, BigRational::one())]);
+        if generator.is_empty() {
+            return Err(fail(
+                "the generator is a D-coboundary (the polynomials are degenerate)".into(),
+            ));
+        }
+        drop(cx);
+        Ok(Normalisation {
+            page,
+            image,
+            generator,
+        })
+    }
+
+    /// The coefficient of the generator in the class of a `δ + t` cocycle `z` of `O_X` of total degree
+    /// `dim X` (precondition: `z` is such a cocycle; otherwise the result is meaningless or
+    /// [`CouplingError::NotProportional`]).
+    pub fn top_coefficient(&self, z: &Cochain<BigRational>) -> Result<BigRational, CouplingError> {
+        let norm = self.normalisation()?;
+        let top = self.engine.config().dimension() as i64;
+        let cx = self.complex(&norm.page);
+        let mut acc: HashMap<usize, BigRational> = HashMap::default();
+        for (m, i, c) in cx.pi_prime(z) {
+            if m == top {
+                *acc.entry(i).or_insert_with(BigRational::zero) += c;
+            }
+        }
+        let mut w: SparseVec<BigRational> = acc.into_iter().filter(|(_, c)| !c.is_zero()).collect();
+        w.sort_unstable_by_key(|e| e.0);
+        let r = arith::reduce(&Q, &norm.image, w);
+        if r.is_empty() {
+            return Ok(BigRational::zero());
+        }
+        let (g0, c0) = &norm.generator[0];
+        if r[0].0 != *g0 || r.len() != norm.generator.len() {
+            return Err(CouplingError::NotProportional);
+        }
+        let lambda = &r[0].1 / c0;
+        for ((i, a), (j, b)) in r.iter().zip(&norm.generator) {
+            if i != j || *a != &lambda * b {
+                return Err(CouplingError::NotProportional);
+            }
+        }
+        Ok(lambda)
+    }
+
+    /// `λ` of three cocycles (any degrees adding up to `dim X`, bundles adding up to zero — preconditions).
+    pub fn value_of_cocycles(
+        &self,
+        cocycles: [&Cochain<BigRational>; 3],
+    ) -> Result<BigRational, CouplingError> {
+        let ab = cup_product(cocycles[0], cocycles[1], MAX_COCHAIN_TERMS)
+            .ok_or_else(|| too_large("pairwise cup product", &[], MAX_COCHAIN_TERMS + 1))?;
+        let z = cup_product(&ab, cocycles[2], MAX_COCHAIN_TERMS)
+            .ok_or_else(|| too_large("triple cup product", &[], MAX_COCHAIN_TERMS + 1))?;
+        self.top_coefficient(&z)
+    }
+
+    /// The types of the `H^1` basis of `O_X(k)`.
+    pub fn h1_types(&self, k: &[i64]) -> Result<Vec<usize>, CouplingError> {
+        Ok(self.lifted_basis(k, 1)?.types())
+    }
+
+    /// All couplings of three bundles with `k_1 + k_2 + k_3 = 0`. Pairwise products `ν_i ∪ ν_j` are formed
+    /// once and reused for every third slot.
+    pub fn yukawa_tensor(&self, bundles: [&[i64]; 3]) -> Result<YukawaTensor, CouplingError> {
+        let m = self.engine.config().num_factors();
+        for b in bundles {
+            if b.len() != m {
+                return Err(CohomologyError::BundleLength {
+                    bundle: b.to_vec(),
+                    got: b.len(),
+                    expected: m,
+                }
+                .into());
+            }
+        }
+        let sum: Vec<i64> = (0..m).map(|i| bundles.iter().map(|b| b[i]).sum()).collect();
+        if sum.iter().any(|&s| s != 0) {
+            return Err(CouplingError::NotTrivialProduct {
+                bundles: bundles.iter().map(|b| b.to_vec()).collect(),
+                sum,
+            });
+        }
+        let bases = [
+            self.lifted_basis(bundles[0], 1)?,
+            self.lifted_basis(bundles[1], 1)?,
+            self.lifted_basis(bundles[2], 1)?,
+        ];
+        let dims = [
+            bases[0].classes.len(),
+            bases[1].classes.len(),
+            bases[2].classes.len(),
+        ];
+        let mut values = Vec::with_capacity(dims[0] * dims[1] * dims[2]);
+        if dims.iter().all(|&d| d > 0) {
+            for a in &bases[0].lifts {
+                for b in &bases[1].lifts {
+                    let ab = cup_product(a, b, MAX_COCHAIN_TERMS).ok_or_else(|| {
+                        too_large("pairwise cup product", &bundles[..2], MAX_COCHAIN_TERMS + 1)
+                    })?;
+                    for c in &bases[2].lifts {
+                        let z = cup_product(&ab, c, MAX_COCHAIN_TERMS).ok_or_else(|| {
+                            too_large("triple cup product", &bundles, MAX_COCHAIN_TERMS + 1)
+                        })?;
+                        values.push(self.top_coefficient(&z)?);
+                    }
+                }
+            }
+        }
+        Ok(YukawaTensor {
+            bundles: [
+                bundles[0].to_vec(),
+                bundles[1].to_vec(),
+                bundles[2].to_vec(),
+            ],
+            dims,
+            types: [bases[0].types(), bases[1].types(), bases[2].types()],
+            values,
+            normalisation: NORMALISATION.to_string(),
+        })
+    }
+
+    /// The Serre pairing `H^q(X, L) × H^{dim X − q}(X, L^*) → H^{dim X}(X, O_X)`, `L = O_X(k)`, in the canonical
+    /// bases: entry `[i][j] = λ(ν_i ∪ μ_j ∪ 1)`, with `1 ∈ H^0(O_X)` the unit. Non-degenerate by Serre duality
+    /// (Hartshorne, Algebraic Geometry, III.7), which the tests check.
+    pub fn pairing_matrix(
+        &self,
+        k: &[i64],
+        q: usize,
+    ) -> Result<Vec<Vec<BigRational>>, CouplingError> {
+        let n = self.engine.config().dimension();
+        if q > n {
+            return Err(CouplingError::Degrees {
+                degrees: vec![q],
+                dim: n,
+            });
+        }
+        let dual: Vec<i64> = k.iter().map(|x| -x).collect();
+        let a = self.lifted_basis(k, q as i64)?;
+        let b = self.lifted_basis(&dual, (n - q) as i64)?;
+        let mut out = Vec::with_capacity(a.lifts.len());
+        for x in &a.lifts {
+            let mut row = Vec::with_capacity(b.lifts.len());
+            for y in &b.lifts {
+                let z = cup_product(x, y, MAX_COCHAIN_TERMS)
+                    .ok_or_else(|| too_large("cup product", &[k, &dual], MAX_COCHAIN_TERMS + 1))?;
+                row.push(self.top_coefficient(&z)?);
+            }
+            out.push(row);
+        }
+        Ok(out)
+    }
+}
+
+/// The types τ of the `H^1` basis of `O_X(k)` (same order as [`CohomologyEngine::representatives`] in degree 1).
+pub fn h1_types(engine: &CohomologyEngine, k: &[i64]) -> Result<Vec<usize>, CouplingError> {
+    let (page, polys) = engine.rational_page(k)?;
+    let cx = Complex {
+        field: &Q,
+        layout: engine.layout(),
+        page: &page,
+        polys: &polys,
+    };
+    Ok(class_basis(&cx, 1).iter().map(|c| c.class_type).collect())
+}
+
+/// All holomorphic couplings `λ(ν_i, ν_j, ν_l)` for `ν_i ∈ H^1(X, O_X(k_1))` etc. (see [`CouplingEngine`], which
+/// caches lifts across many tensors). Error when `k_1 + k_2 + k_3 ≠ 0`.
+pub fn yukawa_tensor(
+    engine: &CohomologyEngine,
+    bundles: [&[i64]; 3],
+) -> Result<YukawaTensor, CouplingError> {
+    CouplingEngine::new(engine).yukawa_tensor(bundles)
+}
+
+/// The Serre pairing matrix `H^q(L) × H^{dim X − q}(L^*) → H^{dim X}(O_X)` (see [`CouplingEngine::pairing_matrix`]).
+pub fn pairing_matrix(
+    engine: &CohomologyEngine,
+    k: &[i64],
+    q: usize,
+) -> Result<Vec<Vec<BigRational>>, CouplingError> {
+    CouplingEngine::new(engine).pairing_matrix(k, q)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::cohomology::PolynomialChoice;
+    use crate::geometry::Configuration;
+
+    fn tetra() -> CohomologyEngine {
+        let c = Configuration::new(&[1, 1, 1, 1], &[vec![2, 2, 2, 2]]).unwrap();
+        CohomologyEngine::new(&c, PolynomialChoice::Generic { seed: 7 }).unwrap()
+    }
+
+    #[test]
+    fn smoke_tetraquadric_demo_triple() {
+        let e = tetra();
+        let ce = CouplingEngine::new(&e);
+        let la = [2i64, 1, -1, -2];
+        let lb = [1i64, -2, 2, -1];
+        let lc: Vec<i64> = la.iter().zip(&lb).map(|(a, b)| -a - b).collect();
+        let t0 = std::time::Instant::now();
+        let t = ce.yukawa_tensor([&la, &lb, &lc]).unwrap();
+        eprintln!(
+            "dims {:?} types {:?} time {:?}",
+            t.dims,
+            t.types,
+            t0.elapsed()
+        );
+        eprintln!(
+            "{:?}",
+            t.values.iter().map(|v| v.to_string()).collect::<Vec<_>>()
+        );
+    }
+
+    #[test]
+    fn smoke_pairing() {
+        let e = tetra();
+        let ce = CouplingEngine::new(&e);
+        let m = ce.pairing_matrix(&[-2, 1, 1, 0], 1).unwrap();
+        eprintln!(
+            "{:?}",
+            m.iter()
+                .map(|r| r.iter().map(|v| v.to_string()).collect::<Vec<_>>())
+                .collect::<Vec<_>>()
+        );
+        let m = ce.pairing_matrix(&[0, 0, 0, 0], 0).unwrap();
+        eprintln!("{:?}", m);
+    }
+}
