@@ -90,6 +90,29 @@ fn exact_coefficients_round_trip() {
         }
     }
     assert!(seen > 10);
+    // couplings: every entry field "<label>#<n>" names an exported class (the same basis)
+    let counts: HashMap<String, usize> = v["multiplets"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|m| {
+            (
+                m["label"].as_str().unwrap().to_string(),
+                m["classes"].as_array().unwrap().len(),
+            )
+        })
+        .collect();
+    let textures = v["couplings"]["classes"].as_array().expect("couplings");
+    assert!(!textures.is_empty());
+    for t in textures {
+        for e in t["entries"].as_array().unwrap() {
+            for f in e["fields"].as_array().unwrap() {
+                let (label, n) = f.as_str().unwrap().rsplit_once('#').unwrap();
+                let n: usize = n.parse().unwrap();
+                assert!(n >= 1 && n <= counts[label], "{f}");
+            }
+        }
+    }
 }
 
 /// A validator for the subset of JSON Schema used by docs/export-schema.json: `type`, `const`, `enum`,
