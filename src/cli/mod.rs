@@ -4,6 +4,8 @@
 
 mod args;
 mod box_scan;
+mod couplings;
+mod export;
 mod render;
 mod report;
 mod scan;
@@ -86,6 +88,44 @@ enum Command {
         #[arg(short = 'o', long, value_name = "FILE")]
         output: Option<PathBuf>,
     },
+    /// Write everything exact a numerical solver needs (representatives as Dolbeault-form data) to one file.
+    Export {
+        /// The model file (TOML) with a [bundle] section.
+        model: PathBuf,
+        /// The output file (written atomically).
+        #[arg(short = 'o', long = "output", value_name = "FILE")]
+        output: PathBuf,
+        /// "json" (default) or "npz" (NumPy arrays of the numeric parts).
+        #[arg(long, default_value = "json")]
+        format: String,
+        #[command(flatten)]
+        poly: args::PolyArgs,
+        /// Also export, per multiplet, a basis of the Serre-dual space H^2(X, L^*).
+        #[arg(long)]
+        with_duals: bool,
+        /// Print a one-line JSON summary instead of text.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Coupling textures: operators from the branching, charge and type selection rules, exact Yukawa values.
+    Couplings {
+        #[command(flatten)]
+        config: ConfigArgs,
+        #[command(flatten)]
+        poly: args::PolyArgs,
+        /// Line bundles of the sum, entries comma separated, bundles separated by ';' (default: the model's).
+        #[arg(long, allow_hyphen_values = true)]
+        bundles: Option<String>,
+        /// For forbidden entries, list the products of up to N present singlets that would allow them.
+        #[arg(long, default_value_t = 0, value_name = "N")]
+        singlets: usize,
+        /// Print per-operator timings on stderr.
+        #[arg(long)]
+        timing: bool,
+        /// Print one JSON object instead of tables.
+        #[arg(long)]
+        json: bool,
+    },
     /// Intersection numbers, c2(TX), Euler number and index data of the Calabi-Yau.
     Geometry {
         #[command(flatten)]
@@ -146,6 +186,14 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                 Ok(render::geometry_table(&summary))
             }
         }
+        Command::Export {
+            model,
+            output,
+            format,
+            poly,
+            with_duals,
+            json,
+        } => export::run(&model, &output, &format, &poly, with_duals, json),
         Command::Cohomology {
             config,
             poly,
@@ -221,6 +269,21 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                 Ok(report::spectrum_text(&analysis))
             }
         }
+        Command::Couplings {
+            config,
+            poly,
+            bundles,
+            singlets,
+            timing,
+            json,
+        } => couplings::run(couplings::CouplingsArgs {
+            config,
+            poly,
+            bundles,
+            singlets,
+            timing,
+            json,
+        }),
         Command::Report { model, json } => report::run(&model, json),
     }
 }

@@ -12,6 +12,7 @@ use num_rational::BigRational;
 use num_traits::{Signed, ToPrimitive};
 use sheafwright::analysis::{self, Favourability, HodgeNumbers, KahlerPointCheck, ModelAnalysis};
 use sheafwright::bundle::Exact;
+use sheafwright::couplings::CouplingReport;
 use sheafwright::bundle::branching::GaugeGroup;
 use sheafwright::geometry::{Geometry, GeometrySummary};
 use sheafwright::slope::{ExistsCertificate, NoneCertificate, Sign, SlopeZero};
@@ -26,6 +27,10 @@ pub struct ReportData<'a> {
     pub hodge: HodgeNumbers,
     pub kahler: Option<KahlerPointCheck>,
     pub analysis: Option<ModelAnalysis>,
+    /// The couplings of the model's bundle; a refusal (e.g. a lift too large) is shown, not fatal.
+    pub couplings: Option<Result<CouplingReport, String>>,
+    /// The model file, when the report was asked for by path (named in the export section).
+    pub model_path: Option<std::path::PathBuf>,
 }
 
 impl<'a> ReportData<'a> {
@@ -54,6 +59,17 @@ impl<'a> ReportData<'a> {
             )?),
             _ => None,
         };
+        let couplings = match &analysis {
+            Some(_) => Some(
+                sheafwright::couplings::couplings(
+                    &engine,
+                    &args::bundle_sum(inputs, None)?,
+                    &sheafwright::couplings::CouplingOptions::default(),
+                )
+                .map_err(|e| e.to_string()),
+            ),
+            None => None,
+        };
         Ok(ReportData {
             inputs,
             geometry,
@@ -61,6 +77,8 @@ impl<'a> ReportData<'a> {
             hodge,
             kahler,
             analysis,
+            couplings,
+            model_path: None,
         })
     }
 }
@@ -68,7 +86,8 @@ impl<'a> ReportData<'a> {
 /// `sheafwright report MODEL [--json]`.
 pub fn run(model: &Path, json: bool) -> Result<String, UserError> {
     let inputs = Inputs::from_model_path(model)?;
-    let data = ReportData::compute(&inputs)?;
+    let mut data = ReportData::compute(&inputs)?;
+    data.model_path = Some(model.to_path_buf());
     if json {
         Ok(render::json_line(&report_json(&data)?)?)
     } else {
@@ -91,6 +110,11 @@ pub fn report_json(d: &ReportData<'_>) -> Result<serde_json::Value, serde_json::
     if let Some(check) = &d.kahler {
         report["kahler_point"] = serde_json::to_value(check)?;
     }
+    match &d.couplings {
+        Some(Ok(c)) => report["couplings"] = serde_json::to_value(c)?,
+        Some(Err(e)) => report["couplings"] = serde_json::json!({ "error": e }),
+        None => {}
+    }
     Ok(report)
 }
 
@@ -106,7 +130,27 @@ pub fn report_text(d: &ReportData<'_>) -> String {
             out.push_str("\n(no [bundle] section: consistency checks and spectrum skipped)\n");
         }
     }
+    couplings_section(d, &mut out);
+    export_section(d, &mut out);
     out
+}
+
+/// The coupling textures in compact form (full matrices: `sheafwright couplings`).
+fn couplings_section(d: &ReportData<'_>, out: &mut String) {
+    match &d.couplings {
+        Some(Ok(c)) => out.push_str(&super::couplings::text(c, true)),
+        Some(Err(e)) => {
+            let _ = writeln!(out, "\n== Couplings ==\n  not computed: {e}");
+        }
+        None => {}
+    }
+}
+
+/// Where the export for numerical solvers is and what it holds.
+fn export_section(d: &ReportData<'_>, out: &mut String) {
+    if let (Some(a), Some(path)) = (&d.analysis, &d.model_path) {
+        out.push_str(&super::export::report_section(path, a));
+    }
 }
 
 /// The sections shared by `report` and `spectrum`: bundle, consistency, slope, multiplets, flags.

@@ -1,8 +1,11 @@
-//! Input and output formats: the model file (TOML, validated on load) and atomic file writing.
+//! Input and output formats: the model file (TOML, validated on load), the export file for numerical solvers
+//! (JSON or NumPy `.npz`) and atomic file writing.
 //!
 //! Invariant: nothing here computes mathematics; it converts between text and validated library values.
 
+pub mod export;
 pub mod model;
+pub mod npz;
 
 use std::io::Write;
 use std::path::Path;

@@ -1,0 +1,239 @@
+//! The `couplings` command: operators, textures with a status for every entry, ranks and relations, as text
+//! (matrices with a legend) or JSON; also the compact couplings section of `report`.
+//!
+//! Invariant: this file only renders [`sheafwright::couplings::CouplingReport`]; every figure comes from the
+//! library.
+
+use super::UserError;
+use super::args::{ConfigArgs, Inputs, PolyArgs};
+use sheafwright::couplings::{
+    CouplingClass, CouplingOptions, CouplingReport, EntryStatus, couplings,
+};
+use std::fmt::Write;
+
+/// Parsed flags of `couplings`.
+pub struct CouplingsArgs {
+    pub config: ConfigArgs,
+    pub poly: PolyArgs,
+    pub bundles: Option<String>,
+    pub singlets: usize,
+    pub timing: bool,
+    pub json: bool,
+}
+
+/// Run the command and return its output.
+pub fn run(a: CouplingsArgs) -> Result<String, UserError> {
+    let inputs = Inputs::from_args(&a.config)?;
+    let engine = a.poly.engine(&inputs)?;
+    let sum = super::args::bundle_sum(&inputs, a.bundles.as_deref())?;
+    let options = CouplingOptions {
+        singlets: a.singlets,
+        values: true,
+    };
+    let started = std::time::Instant::now();
+    let report = couplings(&engine, &sum, &options)?;
+    if a.timing {
+        for t in &report.timings {
+            eprintln!(
+                "timing: {:<16} {:>9.1} ms  ({} Yukawa tensors)",
+                t.operator,
+                t.seconds * 1e3,
+                t.tensors
+            );
+        }
+        eprintln!(
+            "timing: total            {:>9.1} ms",
+            started.elapsed().as_secs_f64() * 1e3
+        );
+    }
+    for w in &report.warnings {
+        eprintln!("warning: {w}");
+    }
+    if a.json {
+        let mut v = serde_json::to_value(&report)?;
+        v["schema"] = "sheafwright.couplings/1".into();
+        v["model"] = inputs.name().into();
+        v["configuration"] = inputs.config().label().into();
+        if a.timing {
+            v["timings"] = serde_json::to_value(&report.timings)?;
+        }
+        Ok(super::render::json_line(&v)?)
+    } else {
+        Ok(text(&report, false))
+    }
+}
+
+const LEGEND: &str = "legend: · forbidden_by_charge   * value (non-zero, shown in full by `couplings`)   τ vanishes_by_type (τ1+τ2+τ3 < K)   0 zero_computed   + allowed_by_charge (no holomorphic value)   ? not_computed   numbers: exact values";
+
+fn cell(c: &CouplingClass, r: usize, col: usize) -> String {
+    let e = &c.entries[r * c.columns.len() + col];
+    match (&e.status, &e.value) {
+        (EntryStatus::Value, Some(v)) => v.to_string(),
+        (s, _) => s.symbol().to_string(),
+    }
+}
+
+fn matrix(out: &mut String, c: &CouplingClass, indent: &str) {
+    let cells: Vec<Vec<String>> = (0..c.rows.len())
+        .map(|r| (0..c.columns.len()).map(|col| cell(c, r, col)).collect())
+        .collect();
+    let row_w = c.rows.iter().map(|l| l.chars().count()).max().unwrap_or(0);
+    let widths: Vec<usize> = (0..c.columns.len())
+        .map(|col| {
+            cells
+                .iter()
+                .map(|row| row[col].chars().count())
+                .chain(std::iter::once(c.columns[col].chars().count()))
+                .max()
+                .unwrap_or(1)
+        })
+        .collect();
+    let pad = |s: &str, w: usize| format!("{s}{}", " ".repeat(w.saturating_sub(s.chars().count())));
+    let _ = write!(out, "{indent}{} ", pad("", row_w));
+    for (col, w) in widths.iter().enumerate() {
+        let _ = write!(out, " {}", pad(&c.columns[col], *w));
+    }
+    out.push('\n');
+    for (r, row) in cells.iter().enumerate() {
+        let _ = write!(out, "{indent}{} ", pad(&c.rows[r], row_w));
+        for (col, w) in widths.iter().enumerate() {
+            let _ = write!(out, " {}", pad(&row[col], *w));
+        }
+        out.push('\n');
+    }
+}
+
+/// One symbol per entry (`*` for a non-zero value), rows and columns named once.
+fn compact_grid(out: &mut String, c: &CouplingClass) {
+    let _ = writeln!(out, "    rows:    {}", c.rows.join(" "));
+    let _ = writeln!(out, "    columns: {}", c.columns.join(" "));
+    for r in 0..c.rows.len() {
+        let line: String = (0..c.columns.len())
+            .map(|col| c.entries[r * c.columns.len() + col].status.symbol())
+            .collect();
+        let _ = writeln!(out, "    {line}");
+    }
+}
+
+fn ranks(c: &CouplingClass) -> String {
+    format!(
+        "structural rank {}, after type {}, rank {}",
+        c.structural_rank,
+        c.structural_rank_after_type,
+        c.rank.map_or("unknown".to_string(), |r| r.to_string())
+    )
+}
+
+/// The human-readable rendering; `compact` (for `report`) leaves out relations, singlet insertions and the
+/// operator list.
+pub fn text(report: &CouplingReport, compact: bool) -> String {
+    let mut out = String::new();
+    let _ = writeln!(
+        out,
+        "\n== Couplings ({}, codimension K = {}) ==",
+        report.gauge_group, report.codimension
+    );
+    for w in &report.warnings {
+        let _ = writeln!(out, "  warning: {w}");
+    }
+    let _ = writeln!(out, "  normalisation: {}", report.normalisation);
+    let _ = writeln!(
+        out,
+        "  values λ(row, column, choice) in slot order; λ is graded antisymmetric in its slots (no E8 structure constant)"
+    );
+    let _ = writeln!(out, "  {LEGEND}");
+    if !compact {
+        let _ = writeln!(out, "\n  operators (allowed tuples of present multiplets):");
+        for o in &report.operators {
+            let _ = writeln!(
+                out,
+                "    {:<16} {}{}",
+                o.operator,
+                if o.allowed.is_empty() {
+                    "none present".to_string()
+                } else {
+                    o.allowed
+                        .iter()
+                        .map(|t| t.join(" "))
+                        .collect::<Vec<_>>()
+                        .join(", ")
+                },
+                if o.holomorphic_value {
+                    ""
+                } else {
+                    "   (charge rule only)"
+                }
+            );
+        }
+    }
+    if report.all_forbidden_textures > 0 {
+        let _ = writeln!(
+            out,
+            "\n  {} texture(s) with every entry forbidden by charge not shown (use --singlets N to list them with the singlets that switch entries on)",
+            report.all_forbidden_textures
+        );
+    }
+    if report.classes.is_empty() {
+        let _ = writeln!(out, "\n  no texture with an allowed entry");
+    }
+    for c in &report.classes {
+        let _ = writeln!(
+            out,
+            "\n  [{}]{}  {}",
+            c.operator,
+            c.choice
+                .as_ref()
+                .map(|h| format!(" with {h}"))
+                .unwrap_or_default(),
+            ranks(c)
+        );
+        if compact {
+            compact_grid(&mut out, c);
+        } else {
+            matrix(&mut out, c, "    ");
+        }
+        for w in &c.warnings {
+            let _ = writeln!(out, "    warning: {w}");
+        }
+        if compact {
+            continue;
+        }
+        for between in ["rows", "columns"] {
+            let zero: Vec<&str> = c
+                .relations
+                .iter()
+                .filter(|r| r.kind == "zero" && r.between == between)
+                .map(|r| r.first.as_str())
+                .collect();
+            if !zero.is_empty() {
+                let _ = writeln!(out, "    zero {between}: {}", zero.join(", "));
+            }
+        }
+        for rel in &c.relations {
+            if rel.kind != "zero" {
+                let _ = writeln!(
+                    out,
+                    "    relation ({}): {} = {} × {}  [{}]",
+                    rel.between, rel.second, rel.factor, rel.first, rel.kind
+                );
+            }
+        }
+        for e in c
+            .entries
+            .iter()
+            .filter(|e| !e.singlet_insertions.is_empty())
+        {
+            let _ = writeln!(
+                out,
+                "    switched on by singlets: {}  ←  {}",
+                e.fields.join(" "),
+                e.singlet_insertions
+                    .iter()
+                    .map(|s| s.join("·"))
+                    .collect::<Vec<_>>()
+                    .join(", ")
+            );
+        }
+    }
+    out
+}

@@ -1,0 +1,863 @@
+//! Coupling textures: for every operator of [`super::operators`] and every choice of its third field, the
+//! matrix of couplings between the basis classes of two multiplet kinds, each entry with one status and the
+//! reason behind it (MATH.md §5).
+//!
+//! Statuses, in the order they are decided:
+//!
+//! * `forbidden_by_charge` — the `S(U(1)^r)` charges do not sum to a multiple of `(1,…,1)`;
+//! * `vanishes_by_type` — allowed by charge, but the types add up to less than the codimension:
+//!   `τ_1 + τ_2 + τ_3 < K`. Theorem (from memory: Blesneag, Buchbinder, Lukas, "Holomorphic Yukawa couplings for
+//!   complete intersection Calabi-Yau manifolds", JHEP 2017): for `ν_i ∈ H^1(X, L_i)` descending from
+//!   `H^{1+τ_i}(A, ∧^{τ_i} N^* ⊗ L_i)` with `L_1 ⊗ L_2 ⊗ L_3 = O_X`, the holomorphic Yukawa coupling
+//!   `∫ Ω ∧ ν_1 ∧ ν_2 ∧ ν_3` vanishes whenever `τ_1 + τ_2 + τ_3 < K`, because the product lands in
+//!   `∧^{τ_1+τ_2+τ_3} N^*` while `H^3(X, O_X)` descends from the top power `∧^K N^*`. No value is computed for
+//!   such an entry;
+//! * `zero_computed` — the exact value was computed and is 0;
+//! * `value` — the exact value ([`CouplingValue`]);
+//! * `allowed_by_charge` — a two-factor operator (mass term): allowed by charge, no holomorphic value here;
+//! * `not_computed` — allowed, but no value could be computed (the product bundle is not trivial because
+//!   `c1(V) ≠ 0`, or a lift was refused as too large); the reason is in the class's `warnings`.
+//!
+//! Textures are built for the two-factor and three-factor operators with at least one non-singlet factor;
+//! operators made of singlets only (`1 1`, `1 1 1`: the bundle-moduli potential) are listed with their
+//! allowed tuples but get no texture.
+//!
+//! Per texture: the **structural rank** (maximum bipartite matching of the not-forbidden pattern, with
+//! petgraph), the structural rank after the type theorem, the **rank** over Q when every entry is known
+//! exactly, and the exact **relations** (equal/opposite entries; equal, opposite, proportional or zero rows
+//! and columns). Values are in slot order `λ(row, column, choice)`; λ is graded antisymmetric in its slots,
+//! so transposed entries of a square texture differ by sign; the E8 structure constant (one overall sign per
+//! operator) is not included. All values share one normalisation of Ω ([`super::value::NORMALISATION`]).
+//!
+//! Invariant: a texture's `entries` are row-major over `rows × columns`, one per pair; `structural_rank ≥
+//! structural_rank_after_type ≥ rank` whenever `rank` is present.
+
+use super::operators::{Operator, SingletField, enumerate_operators, singlet_insertions};
+use super::value::{CouplingEngine, CouplingError, NORMALISATION};
+use crate::arith::{RationalField, SparseMatrix, rank_exact};
+use crate::bundle::spectrum::{Multiplet, Spectrum};
+use crate::bundle::{BundleError, BundleSum, charge_is_singlet};
+use crate::cohomology::CohomologyEngine;
+use crate::geometry::Geometry;
+use num_rational::BigRational;
+use num_traits::{Signed, Zero};
+use serde::{Serialize, Serializer};
+use std::time::Instant;
+use thiserror::Error;
+
+/// Largest `--singlets` accepted (insertions of more singlets are not enumerated).
+pub const MAX_SINGLET_INSERTIONS: usize = 4;
+/// Largest number of rows or columns of one texture.
+pub const MAX_TEXTURE_SIDE: usize = 200;
+
+/// Why a texture computation failed.
+#[derive(Debug, Error)]
+#[non_exhaustive]
+pub enum TextureError {
+    #[error(transparent)]
+    Coupling(#[from] CouplingError),
+    #[error(transparent)]
+    Bundle(#[from] BundleError),
+    #[error("couplings need a Calabi-Yau threefold; this configuration has dimension {0}")]
+    NotThreefold(usize),
+    #[error("--singlets {0} is too large (limit {MAX_SINGLET_INSERTIONS})")]
+    TooManySinglets(usize),
+    #[error(
+        "the {what} side of the {operator} texture has {size} classes (limit {MAX_TEXTURE_SIDE})"
+    )]
+    TooLarge {
+        operator: String,
+        what: &'static str,
+        size: usize,
+    },
+}
+
+/// An exact coupling value. Designed to grow: a value depending on one symbolic complex-structure parameter
+/// is a rational function `numerator/denominator` (coefficients of ascending powers of `parameter`).
+#[derive(Debug, Clone, PartialEq)]
+pub enum CouplingValue {
+    /// An exact rational number.
+    Rational(BigRational),
+    /// `Σ n_i p^i / Σ d_i p^i` in the parameter `p`.
+    RationalFunction {
+        parameter: String,
+        numerator: Vec<BigRational>,
+        denominator: Vec<BigRational>,
+    },
+}
+
+impl CouplingValue {
+    /// The rational number, when the value is one.
+    pub fn as_rational(&self) -> Option<&BigRational> {
+        match self {
+            CouplingValue::Rational(q) => Some(q),
+            CouplingValue::RationalFunction { .. } => None,
+        }
+    }
+}
+
+impl std::fmt::Display for CouplingValue {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self {
+            CouplingValue::Rational(q) => write!(f, "{q}"),
+            CouplingValue::RationalFunction {
+                parameter,
+                numerator,
+                denominator,
+            } => {
+                let poly = |c: &[BigRational]| {
+                    let terms: Vec<String> = c
+                        .iter()
+                        .enumerate()
+                        .filter(|(_, x)| !x.is_zero())
+                        .map(|(i, x)| match i {
+                            0 => format!("{x}"),
+                            1 => format!("({x})*{parameter}"),
+                            _ => format!("({x})*{parameter}^{i}"),
+                        })
+                        .collect();
+                    if terms.is_empty() {
+                        "0".to_string()
+                    } else {
+                        terms.join(" + ")
+                    }
+                };
+                write!(f, "({})/({})", poly(numerator), poly(denominator))
+            }
+        }
+    }
+}
+
+/// Serialised as a string (`"3/2"`, or the rational-function text).
+impl Serialize for CouplingValue {
+    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        s.serialize_str(&self.to_string())
+    }
+}
+
+/// The status of one texture entry (see the module documentation).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum EntryStatus {
+    ForbiddenByCharge,
+    VanishesByType,
+    ZeroComputed,
+    Value,
+    AllowedByCharge,
+    NotComputed,
+}
+
+impl EntryStatus {
+    /// One-character symbol for the text rendering.
+    pub fn symbol(self) -> &'static str {
+        match self {
+            EntryStatus::ForbiddenByCharge => "·",
+            EntryStatus::VanishesByType => "τ",
+            EntryStatus::ZeroComputed => "0",
+            EntryStatus::Value => "*",
+            EntryStatus::AllowedByCharge => "+",
+            EntryStatus::NotComputed => "?",
+        }
+    }
+
+    /// Whether the exact value of the entry is known (zero included).
+    pub fn is_known(self) -> bool {
+        !matches!(
+            self,
+            EntryStatus::AllowedByCharge | EntryStatus::NotComputed
+        )
+    }
+}
+
+/// One entry of a texture.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Entry {
+    /// Field labels in slot order: row class, column class and (for three factors) the choice class, each as
+    /// `"<multiplet>#<n>"` (1-based basis class of that multiplet's `H^1`).
+    pub fields: Vec<String>,
+    /// Row index.
+    pub row: usize,
+    /// Column index.
+    pub column: usize,
+    pub status: EntryStatus,
+    /// The exact value when known and non-zero.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub value: Option<CouplingValue>,
+    /// Types τ of the fields (three-factor operators, when charge-allowed).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub types: Option<Vec<usize>>,
+    /// For a forbidden entry: the products of present singlets that would allow it (`--singlets N`).
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub singlet_insertions: Vec<Vec<String>>,
+}
+
+/// An exact relation inside a texture.
+#[derive(Debug, Clone, PartialEq, Eq, Serialize)]
+pub struct Relation {
+    /// `"entries"`, `"rows"` or `"columns"`.
+    pub between: &'static str,
+    /// `"equal"`, `"opposite"`, `"proportional"` or `"zero"` (a row or column of exact zeros).
+    pub kind: &'static str,
+    /// First member (entry fields joined by spaces, or a row/column label).
+    pub first: String,
+    /// Second member (empty for `"zero"`).
+    pub second: String,
+    /// `second = factor · first` (a rational as a string).
+    pub factor: String,
+}
+
+/// One coupling matrix.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct CouplingClass {
+    /// Operator name, e.g. `"10 10 5"`.
+    pub operator: String,
+    /// The kinds in slot order (row, column, choice).
+    pub slots: Vec<&'static str>,
+    /// The choice field (Higgs or singlet class), `None` for a two-factor operator.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub choice: Option<String>,
+    /// Row labels (`"<multiplet>#<n>"`).
+    pub rows: Vec<String>,
+    /// Column labels.
+    pub columns: Vec<String>,
+    /// Row-major entries.
+    pub entries: Vec<Entry>,
+    /// Maximum bipartite matching of the not-forbidden pattern.
+    pub structural_rank: usize,
+    /// Maximum bipartite matching after removing the entries that vanish by type.
+    pub structural_rank_after_type: usize,
+    /// Exact rank over Q when every entry is known.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub rank: Option<usize>,
+    /// Exact relations between entries, rows and columns.
+    pub relations: Vec<Relation>,
+    /// Why some entries are `not_computed`.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub warnings: Vec<String>,
+}
+
+/// Time spent per operator (not serialised with the classes: results never depend on it).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct OperatorTiming {
+    pub operator: String,
+    pub seconds: f64,
+    /// Number of Yukawa tensors (multiplet triples) whose values were computed.
+    pub tensors: usize,
+}
+
+/// An operator of the model with the present multiplet tuples allowed by charge.
+#[derive(Debug, Clone, PartialEq, Eq, Serialize)]
+pub struct OperatorSummary {
+    pub operator: String,
+    pub arity: usize,
+    pub slots: Vec<&'static str>,
+    pub holomorphic_value: bool,
+    /// Tuples of present multiplet labels (slot order, each multiset once) allowed by charge.
+    pub allowed: Vec<Vec<String>>,
+}
+
+/// Options of [`couplings`].
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct CouplingOptions {
+    /// Largest number of singlet insertions listed for a forbidden entry (0: none).
+    pub singlets: usize,
+    /// Compute exact values (otherwise allowed entries not vanishing by type are `not_computed`).
+    pub values: bool,
+}
+
+impl Default for CouplingOptions {
+    fn default() -> Self {
+        CouplingOptions {
+            singlets: 0,
+            values: true,
+        }
+    }
+}
+
+/// All couplings of a model.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct CouplingReport {
+    /// GUT group name.
+    pub gauge_group: &'static str,
+    /// Codimension K of X in the ambient space (the type threshold).
+    pub codimension: usize,
+    /// The normalisation shared by every value.
+    pub normalisation: &'static str,
+    /// Model-level warnings (failed consistency checks and the like).
+    pub warnings: Vec<String>,
+    /// Every operator of the group with its allowed present tuples.
+    pub operators: Vec<OperatorSummary>,
+    /// The textures (a texture whose entries are all `forbidden_by_charge` is kept only when singlet
+    /// insertions were asked for).
+    pub classes: Vec<CouplingClass>,
+    /// Number of textures left out because every entry is `forbidden_by_charge`.
+    pub all_forbidden_textures: usize,
+    /// Per-operator timings.
+    #[serde(skip)]
+    pub timings: Vec<OperatorTiming>,
+}
+
+/// The spectrum of `bundles` on the engine's configuration (the cohomology engine supplies every `h`).
+pub fn model_spectrum(
+    engine: &CohomologyEngine,
+    bundles: &BundleSum,
+) -> Result<Spectrum, TextureError> {
+    let config = engine.config();
+    if config.dimension() != 3 {
+        return Err(TextureError::NotThreefold(config.dimension()));
+    }
+    let summary = Geometry::new(config).summary();
+    let triple = summary.triple.expect("threefold");
+    let c2 = summary.c2.expect("threefold");
+    let callback = |k: &[i64]| -> Result<Vec<u64>, String> {
+        engine
+            .cohomology(k)
+            .map(|r| r.h.clone())
+            .map_err(|e| e.to_string())
+    };
+    Ok(crate::bundle::spectrum::spectrum(
+        &triple, &c2, bundles, &callback,
+    )?)
+}
+
+/// One side of a texture: the basis classes of the present multiplets of one kind.
+struct Side<'a> {
+    labels: Vec<String>,
+    /// `(multiplet, class index)` per label.
+    classes: Vec<(&'a Multiplet, usize)>,
+}
+
+fn side<'a>(spectrum: &'a Spectrum, kind: &str) -> Side<'a> {
+    let mut labels = Vec::new();
+    let mut classes = Vec::new();
+    for m in spectrum.present().filter(|m| m.kind == kind) {
+        for i in 0..m.count as usize {
+            labels.push(format!("{}#{}", m.label, i + 1));
+            classes.push((m, i));
+        }
+    }
+    Side { labels, classes }
+}
+
+/// The couplings of `bundles`: every operator, every texture (see the module documentation).
+pub fn couplings(
+    engine: &CohomologyEngine,
+    bundles: &BundleSum,
+    options: &CouplingOptions,
+) -> Result<CouplingReport, TextureError> {
+    if options.singlets > MAX_SINGLET_INSERTIONS {
+        return Err(TextureError::TooManySinglets(options.singlets));
+    }
+    let spectrum = model_spectrum(engine, bundles)?;
+    let group = spectrum.gauge_group;
+    let k_codim = engine.config().codimension();
+    let mut warnings = Vec::new();
+    if !spectrum.consistency.all_passed {
+        warnings.push(
+            "the model fails some consistency check (see `spectrum`); couplings are computed anyway"
+                .to_string(),
+        );
+    }
+    if !spectrum.c1_zero {
+        warnings.push(
+            "c1(V) != 0: charge-allowed products are not the trivial bundle, so no values are computed"
+                .to_string(),
+        );
+    }
+    let singlets: Vec<SingletField> = spectrum
+        .present()
+        .filter(|m| m.role == crate::bundle::branching::Role::Singlet)
+        .map(|m| SingletField {
+            label: m.label.clone(),
+            charge: m.charge.clone(),
+        })
+        .collect();
+    let coupling_engine = CouplingEngine::new(engine);
+    let mut types_cache: std::collections::HashMap<Vec<i64>, Vec<usize>> = Default::default();
+    let mut operators = Vec::new();
+    let mut classes = Vec::new();
+    let mut timings = Vec::new();
+    let mut all_forbidden_textures = 0;
+    for op in enumerate_operators(group) {
+        let started = Instant::now();
+        operators.push(summarise(&op, &spectrum)?);
+        let mut tensors = 0;
+        let only_singlets = op
+            .slots
+            .iter()
+            .all(|k| derive_kind_role(group, k) == crate::bundle::branching::Role::Singlet);
+        match op.arity {
+            _ if only_singlets => {}
+            2 => classes.extend(bilinear(&op, &spectrum, &singlets, options)?),
+            3 => {
+                let ctx = Cubic {
+                    op: &op,
+                    spectrum: &spectrum,
+                    singlets: &singlets,
+                    options,
+                    k_codim,
+                    coupling_engine: &coupling_engine,
+                };
+                let (cls, n) = ctx.textures(&mut types_cache)?;
+                tensors = n;
+                classes.extend(cls);
+            }
+            _ => {}
+        }
+        let before = classes.len();
+        classes.retain(|c: &CouplingClass| {
+            options.singlets > 0
+                || c.entries
+                    .iter()
+                    .any(|e| e.status != EntryStatus::ForbiddenByCharge)
+        });
+        all_forbidden_textures += before - classes.len();
+        timings.push(OperatorTiming {
+            operator: op.name.clone(),
+            seconds: started.elapsed().as_secs_f64(),
+            tensors,
+        });
+    }
+    Ok(CouplingReport {
+        gauge_group: group.name(),
+        codimension: k_codim,
+        normalisation: NORMALISATION,
+        warnings,
+        operators,
+        classes,
+        all_forbidden_textures,
+        timings,
+    })
+}
+
+fn derive_kind_role(
+    group: crate::bundle::branching::GaugeGroup,
+    kind: &str,
+) -> crate::bundle::branching::Role {
+    crate::bundle::branching::branching_rule(group)
+        .into_iter()
+        .find(|t| t.gut.name == kind)
+        .map_or(crate::bundle::branching::Role::Gauge, |t| t.gut.role)
+}
+
+fn summarise(op: &Operator, spectrum: &Spectrum) -> Result<OperatorSummary, TextureError> {
+    use itertools::Itertools;
+    let per_slot: Vec<Vec<&Multiplet>> = op
+        .slots
+        .iter()
+        .map(|k| spectrum.present().filter(|m| m.kind == *k).collect())
+        .collect();
+    let mut allowed = Vec::new();
+    let mut seen = std::collections::HashSet::new();
+    for pick in per_slot.iter().multi_cartesian_product() {
+        let charges: Vec<&[i64]> = pick.iter().map(|m| m.charge.as_slice()).collect();
+        if !charge_is_singlet(&charges)? {
+            continue;
+        }
+        let labels: Vec<String> = pick.iter().map(|m| m.label.clone()).collect();
+        let mut key = labels.clone();
+        key.sort();
+        if seen.insert(key) {
+            allowed.push(labels);
+        }
+    }
+    Ok(OperatorSummary {
+        operator: op.name.clone(),
+        arity: op.arity,
+        slots: op.slots.clone(),
+        holomorphic_value: op.holomorphic_value,
+        allowed,
+    })
+}
+
+fn check_side(op: &Operator, what: &'static str, n: usize) -> Result<(), TextureError> {
+    if n > MAX_TEXTURE_SIDE {
+        return Err(TextureError::TooLarge {
+            operator: op.name.clone(),
+            what,
+            size: n,
+        });
+    }
+    Ok(())
+}
+
+fn bilinear(
+    op: &Operator,
+    spectrum: &Spectrum,
+    singlets: &[SingletField],
+    options: &CouplingOptions,
+) -> Result<Vec<CouplingClass>, TextureError> {
+    let rows = side(spectrum, op.slots[0]);
+    let cols = side(spectrum, op.slots[1]);
+    if rows.labels.is_empty() || cols.labels.is_empty() {
+        return Ok(vec![]);
+    }
+    check_side(op, "row", rows.labels.len())?;
+    check_side(op, "column", cols.labels.len())?;
+    let mut entries = Vec::new();
+    for (r, (rm, _)) in rows.classes.iter().enumerate() {
+        for (c, (cm, _)) in cols.classes.iter().enumerate() {
+            let charges = [rm.charge.as_slice(), cm.charge.as_slice()];
+            let allowed = charge_is_singlet(&charges)?;
+            entries.push(Entry {
+                fields: vec![rows.labels[r].clone(), cols.labels[c].clone()],
+                row: r,
+                column: c,
+                status: if allowed {
+                    EntryStatus::AllowedByCharge
+                } else {
+                    EntryStatus::ForbiddenByCharge
+                },
+                value: None,
+                types: None,
+                singlet_insertions: if allowed {
+                    vec![]
+                } else {
+                    singlet_insertions(&charges, singlets, options.singlets)?
+                },
+            });
+        }
+    }
+    Ok(vec![finish(
+        op,
+        None,
+        rows.labels,
+        cols.labels,
+        entries,
+        vec![],
+    )])
+}
+
+struct Cubic<'a> {
+    op: &'a Operator,
+    spectrum: &'a Spectrum,
+    singlets: &'a [SingletField],
+    options: &'a CouplingOptions,
+    k_codim: usize,
+    coupling_engine: &'a CouplingEngine<'a>,
+}
+
+impl Cubic<'_> {
+    fn types(
+        &self,
+        cache: &mut std::collections::HashMap<Vec<i64>, Vec<usize>>,
+        k: &[i64],
+    ) -> Result<Vec<usize>, TextureError> {
+        if let Some(t) = cache.get(k) {
+            return Ok(t.clone());
+        }
+        let t = super::value::h1_types(self.coupling_engine.engine(), k)?;
+        cache.insert(k.to_vec(), t.clone());
+        Ok(t)
+    }
+
+    /// The textures of one three-factor operator, and the number of Yukawa tensors computed.
+    fn textures(
+        &self,
+        types_cache: &mut std::collections::HashMap<Vec<i64>, Vec<usize>>,
+    ) -> Result<(Vec<CouplingClass>, usize), TextureError> {
+        let op = self.op;
+        let rows = side(self.spectrum, op.slots[0]);
+        let cols = side(self.spectrum, op.slots[1]);
+        let choices = side(self.spectrum, op.slots[2]);
+        if rows.labels.is_empty() || cols.labels.is_empty() || choices.labels.is_empty() {
+            return Ok((vec![], 0));
+        }
+        check_side(op, "row", rows.labels.len())?;
+        check_side(op, "column", cols.labels.len())?;
+        let mut tensors: std::collections::HashMap<[String; 3], super::value::YukawaTensor> =
+            Default::default();
+        let mut warned: Vec<String> = Vec::new();
+        let mut out = Vec::new();
+        for (h, (hm, hi)) in choices.classes.iter().enumerate() {
+            let mut entries = Vec::new();
+            let mut warnings = Vec::new();
+            for (r, (rm, ri)) in rows.classes.iter().enumerate() {
+                for (c, (cm, ci)) in cols.classes.iter().enumerate() {
+                    let fields = vec![
+                        rows.labels[r].clone(),
+                        cols.labels[c].clone(),
+                        choices.labels[h].clone(),
+                    ];
+                    let charges = [
+                        rm.charge.as_slice(),
+                        cm.charge.as_slice(),
+                        hm.charge.as_slice(),
+                    ];
+                    let mut entry = Entry {
+                        fields,
+                        row: r,
+                        column: c,
+                        status: EntryStatus::ForbiddenByCharge,
+                        value: None,
+                        types: None,
+                        singlet_insertions: vec![],
+                    };
+                    if !charge_is_singlet(&charges)? {
+                        entry.singlet_insertions =
+                            singlet_insertions(&charges, self.singlets, self.options.singlets)?;
+                        entries.push(entry);
+                        continue;
+                    }
+                    let t = [
+                        self.types(types_cache, &rm.line_bundle)?[*ri],
+                        self.types(types_cache, &cm.line_bundle)?[*ci],
+                        self.types(types_cache, &hm.line_bundle)?[*hi],
+                    ];
+                    entry.types = Some(t.to_vec());
+                    if t.iter().sum::<usize>() < self.k_codim {
+                        entry.status = EntryStatus::VanishesByType;
+                        entries.push(entry);
+                        continue;
+                    }
+                    let trivial = (0..rm.line_bundle.len())
+                        .all(|i| rm.line_bundle[i] + cm.line_bundle[i] + hm.line_bundle[i] == 0);
+                    entry.status = EntryStatus::NotComputed;
+                    if !self.options.values {
+                        push_unique(&mut warnings, "values not requested".to_string());
+                    } else if !trivial {
+                        push_unique(
+                            &mut warnings,
+                            "the product line bundle is not trivial (c1(V) != 0)".to_string(),
+                        );
+                    } else {
+                        let key = [rm.label.clone(), cm.label.clone(), hm.label.clone()];
+                        if !tensors.contains_key(&key) && !warned.contains(&key.join(" ")) {
+                            match self.coupling_engine.yukawa_tensor([
+                                &rm.line_bundle,
+                                &cm.line_bundle,
+                                &hm.line_bundle,
+                            ]) {
+                                Ok(t) => {
+                                    tensors.insert(key.clone(), t);
+                                }
+                                Err(e @ CouplingError::TooLarge { .. })
+                                | Err(e @ CouplingError::Cohomology(_)) => {
+                                    warned.push(key.join(" "));
+                                    push_unique(&mut warnings, format!("{}: {e}", key.join(" ")));
+                                }
+                                Err(e) => return Err(e.into()),
+                            }
+                        }
+                        if let Some(t) = tensors.get(&key) {
+                            let v = t.get(*ri, *ci, *hi);
+                            if v.is_zero() {
+                                entry.status = EntryStatus::ZeroComputed;
+                            } else {
+                                entry.status = EntryStatus::Value;
+                                entry.value = Some(CouplingValue::Rational(v.clone()));
+                            }
+                        } else if warned.contains(&key.join(" ")) {
+                            push_unique(
+                                &mut warnings,
+                                format!("{}: value refused (see above)", key.join(" ")),
+                            );
+                        }
+                    }
+                    entries.push(entry);
+                }
+            }
+            out.push(finish(
+                op,
+                Some(choices.labels[h].clone()),
+                rows.labels.clone(),
+                cols.labels.clone(),
+                entries,
+                warnings,
+            ));
+        }
+        Ok((out, tensors.len()))
+    }
+}
+
+fn push_unique(v: &mut Vec<String>, s: String) {
+    if !v.contains(&s) {
+        v.push(s);
+    }
+}
+
+fn finish(
+    op: &Operator,
+    choice: Option<String>,
+    rows: Vec<String>,
+    columns: Vec<String>,
+    entries: Vec<Entry>,
+    warnings: Vec<String>,
+) -> CouplingClass {
+    let (nr, nc) = (rows.len(), columns.len());
+    let pattern = |keep: &dyn Fn(EntryStatus) -> bool| -> Vec<Vec<bool>> {
+        (0..nr)
+            .map(|r| (0..nc).map(|c| keep(entries[r * nc + c].status)).collect())
+            .collect()
+    };
+    let full_rank = structural_rank(&pattern(&|s| s != EntryStatus::ForbiddenByCharge));
+    let structural_rank_after_type = structural_rank(&pattern(&|s| {
+        !matches!(
+            s,
+            EntryStatus::ForbiddenByCharge | EntryStatus::VanishesByType
+        )
+    }));
+    let values: Option<Vec<Vec<BigRational>>> = if entries.iter().all(|e| e.status.is_known()) {
+        (0..nr)
+            .map(|r| {
+                (0..nc)
+                    .map(|c| match &entries[r * nc + c].value {
+                        None => Some(BigRational::zero()),
+                        Some(v) => v.as_rational().cloned(),
+                    })
+                    .collect()
+            })
+            .collect()
+    } else {
+        None
+    };
+    let rank = values.as_ref().map(|m| exact_rank(m));
+    let relations = relations(&rows, &columns, &entries);
+    CouplingClass {
+        operator: op.name.clone(),
+        slots: op.slots.clone(),
+        choice,
+        rows,
+        columns,
+        entries,
+        structural_rank: full_rank,
+        structural_rank_after_type,
+        rank,
+        relations,
+        warnings,
+    }
+}
+
+/// Exact rank over Q of a dense rational matrix (via [`crate::arith::rank_exact`]).
+pub fn exact_rank(m: &[Vec<BigRational>]) -> usize {
+    let nc = m.first().map_or(0, Vec::len);
+    let triplets = m.iter().enumerate().flat_map(|(r, row)| {
+        row.iter()
+            .enumerate()
+            .filter(|(_, x)| !x.is_zero())
+            .map(move |(c, x)| (r, c, x.clone()))
+    });
+    rank_exact(&SparseMatrix::from_triplets(
+        &RationalField,
+        m.len(),
+        nc,
+        triplets,
+    ))
+}
+
+/// Structural rank of a 0/1 pattern: the size of a maximum matching of the bipartite graph with an edge
+/// `row r — column c` for every `true` entry (petgraph's `maximum_matching`, Gabow's version of Edmonds'
+/// blossom algorithm, which is exact on bipartite graphs too). Equals the largest `k` such that some `k × k`
+/// submatrix has a non-zero permanent of its pattern, i.e. the rank of a generic matrix with this pattern.
+pub fn structural_rank(pattern: &[Vec<bool>]) -> usize {
+    use petgraph::graph::UnGraph;
+    let nr = pattern.len();
+    let nc = pattern.first().map_or(0, Vec::len);
+    let mut g = UnGraph::<(), ()>::with_capacity(nr + nc, 0);
+    let nodes: Vec<_> = (0..nr + nc).map(|_| g.add_node(())).collect();
+    for (r, row) in pattern.iter().enumerate() {
+        for (c, &on) in row.iter().enumerate() {
+            if on {
+                g.add_edge(nodes[r], nodes[nr + c], ());
+            }
+        }
+    }
+    petgraph::algo::maximum_matching(&g).len()
+}
+
+/// `b = f · a` for two equally long rational vectors, when such an `f` exists and `a ≠ 0`.
+fn proportional(a: &[BigRational], b: &[BigRational]) -> Option<BigRational> {
+    let pivot = a.iter().position(|x| !x.is_zero())?;
+    let f = &b[pivot] / &a[pivot];
+    a.iter().zip(b).all(|(x, y)| &(x * &f) == y).then_some(f)
+}
+
+fn relation_kind(f: &BigRational) -> &'static str {
+    if f == &BigRational::from_integer(1.into()) {
+        "equal"
+    } else if f == &BigRational::from_integer((-1).into()) {
+        "opposite"
+    } else {
+        "proportional"
+    }
+}
+
+/// Largest number of relations listed per texture (each relation links a member to its first partner).
+const MAX_RELATIONS: usize = 200;
+
+fn known_value(e: &Entry) -> Option<BigRational> {
+    if !e.status.is_known() {
+        return None;
+    }
+    match &e.value {
+        None => Some(BigRational::zero()),
+        Some(v) => v.as_rational().cloned(),
+    }
+}
+
+fn relations(rows: &[String], columns: &[String], entries: &[Entry]) -> Vec<Relation> {
+    let nc = columns.len();
+    let val = known_value;
+    let mut out = Vec::new();
+    // Entries: each non-zero value linked to the first entry of the same absolute value.
+    let mut firsts: Vec<(BigRational, usize)> = Vec::new();
+    for (i, e) in entries.iter().enumerate() {
+        let Some(v) = val(e).filter(|v| !v.is_zero()) else {
+            continue;
+        };
+        let abs = v.abs();
+        match firsts.iter().find(|(a, _)| a == &abs) {
+            Some((_, j)) => {
+                let f = v / val(&entries[*j]).expect("known");
+                out.push(Relation {
+                    between: "entries",
+                    kind: relation_kind(&f),
+                    first: entries[*j].fields.join(" "),
+                    second: e.fields.join(" "),
+                    factor: f.to_string(),
+                });
+            }
+            None => firsts.push((abs, i)),
+        }
+    }
+    // Rows and columns with every entry known.
+    let row_vals: Vec<Option<Vec<BigRational>>> = (0..rows.len())
+        .map(|r| (0..nc).map(|c| val(&entries[r * nc + c])).collect())
+        .collect();
+    let col_vals: Vec<Option<Vec<BigRational>>> = (0..nc)
+        .map(|c| (0..rows.len()).map(|r| val(&entries[r * nc + c])).collect())
+        .collect();
+    for (between, labels, vals) in [("rows", rows, row_vals), ("columns", columns, col_vals)] {
+        for i in 0..vals.len() {
+            let Some(b) = &vals[i] else { continue };
+            if b.iter().all(|x| x.is_zero()) {
+                out.push(Relation {
+                    between,
+                    kind: "zero",
+                    first: labels[i].clone(),
+                    second: String::new(),
+                    factor: "0".into(),
+                });
+                continue;
+            }
+            for j in 0..i {
+                let Some(a) = &vals[j] else { continue };
+                if let Some(f) = proportional(a, b) {
+                    out.push(Relation {
+                        between,
+                        kind: relation_kind(&f),
+                        first: labels[j].clone(),
+                        second: labels[i].clone(),
+                        factor: f.to_string(),
+                    });
+                    break;
+                }
+            }
+        }
+    }
+    out.truncate(MAX_RELATIONS);
+    out
+}
+
+#[cfg(test)]
+mod tests;

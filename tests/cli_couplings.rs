@@ -1,0 +1,170 @@
+//! End-to-end tests of `sheafwright couplings` and the couplings section of `report`: text with legend and
+//! ranks, the JSON contract keys, warnings for failing models, and bad input (exit code 2).
+
+mod common;
+use common::{assert_refused, json, sheafwright, temp_file};
+
+#[test]
+fn text_has_legend_ranks_and_normalisation() {
+    let (code, out, err) = sheafwright(&["couplings", "catalogs-demo/tetraquadric-so10.toml"]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("legend:"), "{out}");
+    assert!(out.contains("forbidden_by_charge"), "{out}");
+    assert!(out.contains("normalisation:"), "{out}");
+    assert!(out.contains("[16 16 10] with 10_{1,2}#1"), "{out}");
+    assert!(out.contains("structural rank"), "{out}");
+    assert!(out.contains("relation (entries)"), "{out}");
+}
+
+#[test]
+fn json_contract_keys() {
+    let v = json(&[
+        "couplings",
+        "catalogs-demo/tetraquadric-so10.toml",
+        "--json",
+    ]);
+    assert_eq!(v["schema"], "sheafwright.couplings/1");
+    let classes = v["classes"].as_array().expect("classes");
+    assert!(!classes.is_empty());
+    let c = classes
+        .iter()
+        .find(|c| c["operator"] == "16 16 10")
+        .expect("a 16 16 10 texture");
+    assert!(c["structural_rank"].is_u64());
+    assert!(
+        c["rank"].is_u64(),
+        "values are exact here, so the rank is known"
+    );
+    let entries = c["entries"].as_array().unwrap();
+    assert!(
+        entries
+            .iter()
+            .all(|e| e["fields"].as_array().unwrap().len() == 3)
+    );
+    assert!(entries.iter().any(|e| e["status"] == "forbidden_by_charge"));
+    // Rationals are strings, integers numbers.
+    let valued: Vec<_> = entries.iter().filter(|e| e["status"] == "value").collect();
+    assert!(!valued.is_empty());
+    assert!(valued.iter().all(|e| e["value"].is_string()));
+    assert!(
+        v["operators"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .any(|o| o["operator"] == "16 16 10")
+    );
+    assert!(v["codimension"].is_u64());
+}
+
+#[test]
+fn down_type_operator_name_and_type_vanishing_in_json() {
+    let v = json(&[
+        "couplings",
+        "catalogs-demo/tetraquadric-typezero.toml",
+        "--json",
+    ]);
+    let ops: Vec<&str> = v["operators"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|o| o["operator"].as_str().unwrap())
+        .collect();
+    assert!(
+        ops.contains(&"5bar 10 5bar") && ops.contains(&"10 10 5"),
+        "{ops:?}"
+    );
+    let up = v["classes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|c| c["operator"] == "10 10 5")
+        .expect("up-type texture");
+    assert!(
+        up["entries"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .any(|e| e["status"] == "vanishes_by_type")
+    );
+    assert_eq!(up["rank"], 0);
+}
+
+#[test]
+fn failing_model_gets_couplings_with_a_warning() {
+    let (code, out, err) = sheafwright(&["couplings", "catalogs-demo/split-c.toml"]);
+    assert_eq!(code, 0, "{err}");
+    assert!(err.contains("warning:"), "{err}");
+    assert!(out.contains("== Couplings (E6"), "{out}");
+}
+
+#[test]
+fn inline_bundles_singlets_and_timing() {
+    let (code, out, err) = sheafwright(&[
+        "couplings",
+        "--ambient",
+        "1,1,1,1",
+        "--equations",
+        "2,2,2,2",
+        "--bundles",
+        "-2,1,1,0;1,-2,1,0;0,0,-1,1;1,1,-1,0;0,0,0,-1",
+        "--singlets",
+        "1",
+        "--timing",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert!(err.contains("timing: 10 10 5"), "{err}");
+    assert!(out.contains("switched on by singlets"), "{out}");
+}
+
+#[test]
+fn report_has_couplings_section() {
+    let (code, out, err) = sheafwright(&["report", "catalogs-demo/tetraquadric-so10.toml"]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("== Couplings (SO(10)"), "{out}");
+    let v = json(&["report", "catalogs-demo/tetraquadric-so10.toml", "--json"]);
+    assert!(v["couplings"]["classes"].is_array());
+}
+
+#[test]
+fn bad_input_is_refused() {
+    assert_refused(
+        &["couplings", "catalogs-demo/quintic-plain.toml"],
+        "no line bundles",
+    );
+    assert_refused(
+        &[
+            "couplings",
+            "catalogs-demo/tetraquadric-e6.toml",
+            "--singlets",
+            "99",
+        ],
+        "--singlets 99",
+    );
+    // Argument-parser errors: exit code 2 with clap's message naming the flag.
+    let (code, _, err) = sheafwright(&[
+        "couplings",
+        "catalogs-demo/tetraquadric-e6.toml",
+        "--singlets",
+        "x",
+    ]);
+    assert_eq!(code, 2);
+    assert!(
+        err.starts_with("error:") && err.contains("--singlets"),
+        "{err}"
+    );
+    assert_refused(
+        &[
+            "couplings",
+            "catalogs-demo/tetraquadric-e6.toml",
+            "--bundles",
+            "1,2;3",
+        ],
+        "--bundles",
+    );
+    let bad = temp_file(
+        "bad-couplings.toml",
+        "name = \"x\"\n[ambient]\ndims = [1,\n",
+    );
+    assert_refused(&["couplings", &bad], "bad-couplings.toml");
+    assert_refused(&["couplings"], "no configuration");
+}
