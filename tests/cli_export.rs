@@ -154,9 +154,9 @@ fn validate(schema: &Value, root: &Value, v: &Value, at: &str, errors: &mut Vec<
             return;
         }
     }
-    if let Some(p) = schema.get("pattern").and_then(Value::as_str) {
+    // As in JSON Schema, `pattern` constrains strings only.
+    if let (Some(p), Some(s)) = (schema.get("pattern").and_then(Value::as_str), v.as_str()) {
         assert_eq!(p, "^-?[0-9]+(/[0-9]+)?$", "unsupported pattern");
-        let s = v.as_str().unwrap_or("");
         let (num, den) = s.split_once('/').unwrap_or((s, "1"));
         let digits = |t: &str| !t.is_empty() && t.bytes().all(|b| b.is_ascii_digit());
         if !(digits(num.strip_prefix('-').unwrap_or(num)) && digits(den)) {
