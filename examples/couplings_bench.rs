@@ -110,7 +110,8 @@ fn main() {
         run(&model.name, &engine, bundles);
     }
     // Codimension-2 configurations with invented rank-5 sums (c1 = 0; not necessarily anomaly-free).
-    let extra: [(&str, Vec<i64>, Vec<Vec<i64>>, Vec<Vec<i64>>); 2] = [
+    type Case = (&'static str, Vec<i64>, Vec<Vec<i64>>, Vec<Vec<i64>>);
+    let extra: [Case; 2] = [
         (
             "P1^5[(1,1,1,1,2);(1,1,1,1,0)]",
             vec![1, 1, 1, 1, 1],
@@ -142,5 +143,25 @@ fn main() {
             CohomologyEngine::new(&config, PolynomialChoice::Generic { seed: DEFAULT_SEED })
                 .unwrap();
         run(name, &engine, &bundles);
+    }
+    // A codimension-2 triple whose classes all have type 1 (large rational coefficients in the lifts).
+    let config = Configuration::new(
+        &[1, 1, 1, 1, 1],
+        &[vec![1, 1, 1, 1, 2], vec![1, 1, 1, 1, 0]],
+    )
+    .expect("configuration");
+    let engine = CohomologyEngine::new(&config, PolynomialChoice::Generic { seed: 3 }).unwrap();
+    let ce = CouplingEngine::new(&engine);
+    let t: [&[i64]; 3] = [&[-1, 1, 1, -1, 0], &[3, 1, -2, -2, 0], &[-2, -2, 1, 3, 0]];
+    let t0 = Instant::now();
+    match ce.yukawa_tensor(t) {
+        Ok(r) => println!(
+            "P1^5 type-1 triple {:?}: dims {:?} types {:?}  {:.3} s",
+            t,
+            r.dims,
+            r.types,
+            t0.elapsed().as_secs_f64()
+        ),
+        Err(e) => println!("P1^5 type-1 triple: refused: {e}"),
     }
 }

@@ -37,6 +37,9 @@ const TETRA_TRIPLE: [[i64; 4]; 3] = [[1, -2, 1, 0], [-3, 2, -1, 2], [2, 0, 0, -2
 /// Codimension-2 triple with types (0, 0, 1) (below K = 2).
 const CODIM2_LOW: [[i64; 5]; 3] = [[1, -2, 1, 0, 0], [0, 1, -2, 1, 0], [-1, 1, 1, -1, 0]];
 
+/// Codimension-2 triple whose classes all have type 1 (h^1 = 1, 4, 4).
+const CODIM2_TYPE1: [[i64; 5]; 3] = [[-1, 1, 1, -1, 0], [3, 1, -2, -2, 0], [-2, -2, 1, 3, 0]];
+
 fn q(n: i64) -> BigRational {
     BigRational::from_integer(BigInt::from(n))
 }
@@ -65,7 +68,7 @@ fn add(a: &Cochain<BigRational>, b: &Cochain<BigRational>) -> Cochain<BigRationa
     out
 }
 
-fn cocycle_check(e: &CohomologyEngine, triple: [&[i64]; 3]) {
+fn cocycle_check(e: &CohomologyEngine, triple: [&[i64]; 3], take: usize) {
     let ce = CouplingEngine::new(e);
     let bases: Vec<_> = triple
         .iter()
@@ -85,15 +88,15 @@ fn cocycle_check(e: &CohomologyEngine, triple: [&[i64]; 3]) {
     let (page0, _) = e.rational_page(&vec![0; k12.len()]).unwrap();
     let cx12 = ce.complex(&page12);
     let cx0 = ce.complex(&page0);
-    for a in bases[0].lifts.iter().take(3) {
-        for b in bases[1].lifts.iter().take(3) {
+    for a in bases[0].lifts.iter().take(take) {
+        for b in bases[1].lifts.iter().take(take) {
             let ab = cup_product(a, b, MAX_COCHAIN_TERMS).unwrap();
             assert!(!ab.is_empty());
             assert!(
                 cx12.total_differential(&ab).is_empty(),
                 "ν1 ∪ ν2 not a cocycle"
             );
-            for c in bases[2].lifts.iter().take(2) {
+            for c in bases[2].lifts.iter().take(take.min(2)) {
                 let z = cup_product(&ab, c, MAX_COCHAIN_TERMS).unwrap();
                 assert!(
                     cx0.total_differential(&z).is_empty(),
@@ -107,13 +110,17 @@ fn cocycle_check(e: &CohomologyEngine, triple: [&[i64]; 3]) {
 #[test]
 fn products_of_lifted_cocycles_are_cocycles_on_a_hypersurface() {
     let t = TETRA_TRIPLE;
-    cocycle_check(&tetra(), [&t[0], &t[1], &t[2]]);
+    cocycle_check(&tetra(), [&t[0], &t[1], &t[2]], 3);
 }
 
 #[test]
 fn products_of_lifted_cocycles_are_cocycles_in_codimension_two() {
+    let e = codim2();
     let t = CODIM2_LOW;
-    cocycle_check(&codim2(), [&t[0], &t[1], &t[2]]);
+    cocycle_check(&e, [&t[0], &t[1], &t[2]], 3);
+    // All three classes of type 1 (Koszul signs between e_S and odd Čech degrees matter here).
+    let t = CODIM2_TYPE1;
+    cocycle_check(&e, [&t[0], &t[1], &t[2]], 1);
 }
 
 #[test]
@@ -480,4 +487,35 @@ fn bad_input_is_a_typed_error() {
     let b = ce.lifted_basis(&TETRA_TRIPLE[1], 1).unwrap();
     let a = ce.lifted_basis(&TETRA_TRIPLE[0], 1).unwrap();
     assert!(cup_product(&a.lifts[0], &b.lifts[0], 3).is_none());
+}
+
+#[test]
+fn memoised_functional_agrees_with_the_checked_projection() {
+    // The fast path (term-wise memoised functional) against forming z and projecting it with the
+    // proportionality check, on a hypersurface and on an all-type-1 codimension-2 triple.
+    let e = tetra();
+    let ce = CouplingEngine::new(&e);
+    let t = TETRA_TRIPLE;
+    let tensor = ce.yukawa_tensor([&t[0], &t[1], &t[2]]).unwrap();
+    let b: Vec<_> = t.iter().map(|k| ce.lifted_basis(k, 1).unwrap()).collect();
+    for i in 0..2 {
+        for j in 0..3 {
+            for l in 0..tensor.dims[2] {
+                let v = ce
+                    .value_of_cocycles([&b[0].lifts[i], &b[1].lifts[j], &b[2].lifts[l]])
+                    .unwrap();
+                assert_eq!(&v, tensor.get(i, j, l));
+            }
+        }
+    }
+    let e = codim2();
+    let ce = CouplingEngine::new(&e);
+    let t = CODIM2_TYPE1;
+    let b: Vec<_> = t.iter().map(|k| ce.lifted_basis(k, 1).unwrap()).collect();
+    let ab = cup_product(&b[0].lifts[0], &b[1].lifts[0], MAX_COCHAIN_TERMS).unwrap();
+    let fast = ce.value_of_product(&ab, &b[2].lifts[0]).unwrap();
+    let slow = ce
+        .value_of_cocycles([&b[0].lifts[0], &b[1].lifts[0], &b[2].lifts[0]])
+        .unwrap();
+    assert_eq!(fast, slow);
 }

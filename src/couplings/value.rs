@@ -133,13 +133,20 @@ struct Normalisation {
     generator: SparseVec<BigRational>,
 }
 
+/// Lifted bases by (bundle, degree).
+type BasisCache = HashMap<(Vec<i64>, i64), Arc<LiftedBasis>>;
+/// Terms of a cochain by their minimal vertices: key, coefficient, Čech degree per factor.
+type MinVertexIndex<'c> = HashMap<Vec<u8>, Vec<(&'c CechKey, &'c BigRational, Vec<u32>)>>;
+
 /// Computes couplings for one cohomology engine, caching lifted bases per (bundle, degree) and the
 /// normalisation of `H^3(X, O_X)`.
 pub struct CouplingEngine<'a> {
     engine: &'a CohomologyEngine,
     polys: FieldPolys<BigRational>,
-    bases: Mutex<HashMap<(Vec<i64>, i64), Arc<LiftedBasis>>>,
+    bases: Mutex<BasisCache>,
     norm: OnceLock<Result<Arc<Normalisation>, CouplingError>>,
+    /// Memo of the linear functional `φ(key) = f(π'(key))` on single Čech–Koszul terms of `O_X`.
+    functional: Mutex<HashMap<CechKey, BigRational>>,
 }
 
 fn too_large(what: &str, bundles: &[&[i64]], size: usize) -> CouplingError {
@@ -174,13 +181,42 @@ pub fn cup_product(
     y: &Cochain<BigRational>,
     limit: usize,
 ) -> Option<Cochain<BigRational>> {
-    let mut index: HashMap<Vec<u8>, Vec<(&CechKey, &BigRational, Vec<u32>)>> = HashMap::default();
+    let mut out: Cochain<BigRational> = Cochain::default();
+    let complete = for_each_product_term(x, y, |key, odd, cx, cy| {
+        let v = cx * cy;
+        let v = if odd { -v } else { v };
+        use std::collections::hash_map::Entry;
+        match out.entry(key) {
+            Entry::Vacant(e) => {
+                e.insert(v);
+            }
+            Entry::Occupied(mut e) => {
+                let s = e.get() + &v;
+                if s.is_zero() {
+                    e.remove();
+                } else {
+                    *e.get_mut() = s;
+                }
+            }
+        }
+        out.len() <= limit
+    });
+    complete.then_some(out)
+}
+
+/// Visit every non-zero term `(key, sign is odd, coefficient of x, coefficient of y)` of the product
+/// `x ∪ y` (see [`cup_product`] for the rule), stopping early (and returning false) when `visit` does.
+fn for_each_product_term<'c>(
+    x: &'c Cochain<BigRational>,
+    y: &'c Cochain<BigRational>,
+    mut visit: impl FnMut(CechKey, bool, &'c BigRational, &'c BigRational) -> bool,
+) -> bool {
+    let mut index: MinVertexIndex<'c> = HashMap::default();
     for (k, c) in y {
         let mins: Vec<u8> = k.faces.iter().map(|f| f.trailing_zeros() as u8).collect();
         let qs: Vec<u32> = k.faces.iter().map(|f| f.count_ones() - 1).collect();
         index.entry(mins).or_default().push((k, c, qs));
     }
-    let mut out: Cochain<BigRational> = Cochain::default();
     let mut want: Vec<u8> = Vec::new();
     for (kx, cx) in x {
         want.clear();
@@ -207,28 +243,12 @@ pub fn cup_product(
                 faces: kx.faces.iter().zip(&ky.faces).map(|(a, b)| a | b).collect(),
                 koszul: kx.koszul | ky.koszul,
             };
-            let v = cx * *cy;
-            let v = if odd { -v } else { v };
-            use std::collections::hash_map::Entry;
-            match out.entry(key) {
-                Entry::Vacant(e) => {
-                    e.insert(v);
-                }
-                Entry::Occupied(mut e) => {
-                    let s = e.get() + &v;
-                    if s.is_zero() {
-                        e.remove();
-                    } else {
-                        *e.get_mut() = s;
-                    }
-                }
-            }
-            if out.len() > limit {
-                return None;
+            if !visit(key, odd, cx, cy) {
+                return false;
             }
         }
     }
-    Some(out)
+    true
 }
 
 impl<'a> CouplingEngine<'a> {
@@ -240,6 +260,7 @@ impl<'a> CouplingEngine<'a> {
             polys,
             bases: Mutex::new(HashMap::default()),
             norm: OnceLock::new(),
+            functional: Mutex::new(HashMap::default()),
         }
     }
 
@@ -360,7 +381,6 @@ impl<'a> CouplingEngine<'a> {
                 "the generator is a D-coboundary (the polynomials are degenerate)".into(),
             ));
         }
-        drop(cx);
         Ok(Normalisation {
             page,
             image,
@@ -398,6 +418,69 @@ impl<'a> CouplingEngine<'a> {
             }
         }
         Ok(lambda)
+    }
+
+    /// `φ(key) = f(π'(key))`: the linear functional `f` on `E_1^{dim X}(O_X)` — the coefficient at the
+    /// generator's leading index of the remainder modulo `im D`, divided by the generator's — applied to the
+    /// projection of one basis cochain. On `D`-cocycles `f` is the checked coefficient of
+    /// [`CouplingEngine::top_coefficient`]; being linear, it can be applied term by term and memoised.
+    fn functional_of(&self, norm: &Normalisation, key: &CechKey) -> BigRational {
+        if let Some(v) = self
+            .functional
+            .lock()
+            .ok()
+            .and_then(|m| m.get(key).cloned())
+        {
+            return v;
+        }
+        let top = self.engine.config().dimension() as i64;
+        let cx = self.complex(&norm.page);
+        let mut single = Cochain::default();
+        single.insert(key.clone(), BigRational::one());
+        let mut acc: HashMap<usize, BigRational> = HashMap::default();
+        for (m, i, c) in cx.pi_prime(&single) {
+            if m == top {
+                *acc.entry(i).or_insert_with(BigRational::zero) += c;
+            }
+        }
+        let mut w: SparseVec<BigRational> = acc.into_iter().filter(|(_, c)| !c.is_zero()).collect();
+        w.sort_unstable_by_key(|e| e.0);
+        let (g0, c0) = &norm.generator[0];
+        let r = arith::reduce(&Q, &norm.image, w);
+        let v = r
+            .iter()
+            .find(|(i, _)| i == g0)
+            .map(|(_, x)| x / c0)
+            .unwrap_or_else(BigRational::zero);
+        if let Ok(mut m) = self.functional.lock() {
+            m.insert(key.clone(), v.clone());
+        }
+        v
+    }
+
+    /// `λ = f(π'(x ∪ y))` without forming the product: only the product terms on which the memoised
+    /// functional is non-zero are multiplied out (the fast path of [`CouplingEngine::yukawa_tensor`]; it agrees
+    /// with the checked [`CouplingEngine::top_coefficient`] of the product, as the tests verify).
+    pub fn value_of_product(
+        &self,
+        x: &Cochain<BigRational>,
+        y: &Cochain<BigRational>,
+    ) -> Result<BigRational, CouplingError> {
+        let norm = self.normalisation()?;
+        let mut total = BigRational::zero();
+        for_each_product_term(x, y, |key, odd, cx, cy| {
+            let phi = self.functional_of(&norm, &key);
+            if !phi.is_zero() {
+                let v = cx * cy * phi;
+                if odd {
+                    total -= v;
+                } else {
+                    total += v;
+                }
+            }
+            true
+        });
+        Ok(total)
     }
 
     /// `λ` of three cocycles (any degrees adding up to `dim X`, bundles adding up to zero — preconditions).
@@ -456,10 +539,7 @@ impl<'a> CouplingEngine<'a> {
                         too_large("pairwise cup product", &bundles[..2], MAX_COCHAIN_TERMS + 1)
                     })?;
                     for c in &bases[2].lifts {
-                        let z = cup_product(&ab, c, MAX_COCHAIN_TERMS).ok_or_else(|| {
-                            too_large("triple cup product", &bundles, MAX_COCHAIN_TERMS + 1)
-                        })?;
-                        values.push(self.top_coefficient(&z)?);
+                        values.push(self.value_of_product(&ab, c)?);
                     }
                 }
             }
