@@ -625,44 +625,60 @@ mod tests {
     use crate::cohomology::PolynomialChoice;
     use crate::geometry::Configuration;
 
-    fn tetra() -> CohomologyEngine {
+    fn term(exps: Vec<i32>, faces: Vec<u64>, koszul: u32, c: i64) -> Cochain<BigRational> {
+        let mut x = Cochain::default();
+        x.insert(
+            CechKey {
+                exps,
+                faces,
+                koszul,
+            },
+            BigRational::from_integer(c.into()),
+        );
+        x
+    }
+
+    #[test]
+    fn wedge_sign_counts_inversions() {
+        // e_1 ∧ e_0 = −e_0 ∧ e_1; e_0 ∧ e_1 keeps the order (common practice: exterior algebra).
+        assert!(wedge_odd(0b10, 0b01));
+        assert!(!wedge_odd(0b01, 0b10));
+        assert!(wedge_odd(0b101, 0b010)); // e_0 e_2 ∧ e_1: one inversion
+    }
+
+    #[test]
+    fn alexander_whitney_faces_and_signs() {
+        // One P^1 factor: [0] ∪ [0,1] = [0,1]; [0,1] ∪ [0] = 0 (max I ≠ min J); [0,1] ∪ [1] = [0,1].
+        let a = term(vec![1, 0], vec![0b01], 0, 2);
+        let b = term(vec![-1, -1], vec![0b11], 0, 3);
+        let ab = cup_product(&a, &b, 10).unwrap();
+        assert_eq!(ab.len(), 1);
+        let (k, v) = ab.iter().next().unwrap();
+        assert_eq!(k.faces, vec![0b11]);
+        assert_eq!(k.exps, vec![0, -1]);
+        assert_eq!(*v, BigRational::from_integer(6.into()));
+        assert!(cup_product(&b, &a, 10).unwrap().is_empty());
+        // Koszul sign (−1)^{p(x) q(y)}: e_0 (p = 1) times a Čech 1-cochain.
+        let x = term(vec![0, 0], vec![0b01], 1, 1);
+        let y = term(vec![-1, -1], vec![0b11], 0, 1);
+        let xy = cup_product(&x, &y, 10).unwrap();
+        assert_eq!(
+            xy.values().next().unwrap(),
+            &BigRational::from_integer((-1).into())
+        );
+        assert!(cup_product(&x, &x, 10).unwrap().is_empty()); // e_0 ∧ e_0 = 0
+    }
+
+    #[test]
+    fn generator_of_h3_is_found_and_normalised() {
         let c = Configuration::new(&[1, 1, 1, 1], &[vec![2, 2, 2, 2]]).unwrap();
-        CohomologyEngine::new(&c, PolynomialChoice::Generic { seed: 7 }).unwrap()
-    }
-
-    #[test]
-    fn smoke_tetraquadric_demo_triple() {
-        let e = tetra();
+        let e = CohomologyEngine::new(&c, PolynomialChoice::Generic { seed: 7 }).unwrap();
         let ce = CouplingEngine::new(&e);
-        let la = [2i64, 1, -1, -2];
-        let lb = [1i64, -2, 2, -1];
-        let lc: Vec<i64> = la.iter().zip(&lb).map(|(a, b)| -a - b).collect();
-        let t0 = std::time::Instant::now();
-        let t = ce.yukawa_tensor([&la, &lb, &lc]).unwrap();
-        eprintln!(
-            "dims {:?} types {:?} time {:?}",
-            t.dims,
-            t.types,
-            t0.elapsed()
+        // 1 ∪ g-class: the pairing of H^0(O) and H^3(O) in the canonical bases is 1.
+        assert_eq!(
+            ce.pairing_matrix(&[0, 0, 0, 0], 0).unwrap(),
+            vec![vec![BigRational::one()]]
         );
-        eprintln!(
-            "{:?}",
-            t.values.iter().map(|v| v.to_string()).collect::<Vec<_>>()
-        );
-    }
-
-    #[test]
-    fn smoke_pairing() {
-        let e = tetra();
-        let ce = CouplingEngine::new(&e);
-        let m = ce.pairing_matrix(&[-2, 1, 1, 0], 1).unwrap();
-        eprintln!(
-            "{:?}",
-            m.iter()
-                .map(|r| r.iter().map(|v| v.to_string()).collect::<Vec<_>>())
-                .collect::<Vec<_>>()
-        );
-        let m = ce.pairing_matrix(&[0, 0, 0, 0], 0).unwrap();
-        eprintln!("{:?}", m);
+        assert!(NORMALISATION.contains("every exponent −1"));
     }
 }
