@@ -1,0 +1,25 @@
+#!/usr/bin/env bash
+# Coupling benchmarks: per model and per operator time of `sheafwright couplings` (one thread) for every demo
+# model with a bundle and one invented rank-5 sum on the codimension-2 configuration P2xP3[(2,1);(1,3)].
+# Usage: benches/couplings_report.sh   (builds the release binary first). Goal: each demo model under 1 s.
+set -euo pipefail
+cd "$(dirname "$0")/.."
+cargo build --release --quiet
+BIN=target/release/sheafwright
+export RAYON_NUM_THREADS=1
+echo "# sheafwright coupling benchmarks, one thread ($(date -u +%F))"
+run() {
+  local label=$1; shift
+  local t0 t1
+  t0=$(date +%s.%N)
+  "$BIN" couplings "$@" --timing 2>/tmp/sw-couplings-timing >/dev/null || true
+  t1=$(date +%s.%N)
+  awk -v l="$label" -v a="$t0" -v b="$t1" 'BEGIN { printf "%-44s wall %7.3f s\n", l, b - a }'
+  grep -v ' 0.0 ms' /tmp/sw-couplings-timing | grep '^timing' | sed 's/^/    /'
+}
+for f in catalogs-demo/*.toml; do
+  grep -q '^\[bundle\]' "$f" || continue
+  run "$(basename "$f" .toml)" "$f"
+done
+run "rank 5 on P2xP3[(2,1);(1,3)] (invented)" --ambient 2,3 --equations "2,1;1,3" \
+  --bundles "2,-1;-1,1;0,-1;-1,1;0,0"
