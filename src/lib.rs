@@ -15,3 +15,4 @@ pub mod geometry;
 pub mod io;
 pub mod poly;
 pub mod slope;
+pub mod symmetry;
