@@ -5,6 +5,7 @@
 mod args;
 mod box_scan;
 mod render;
+mod symmetry;
 
 use args::{ConfigArgs, Inputs};
 use clap::{Parser, Subcommand};
@@ -192,12 +193,21 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                 sheafwright::io::write_atomic(&path, svg.as_bytes())
                     .map_err(|e| UserError(format!("cannot write {}: {e}", path.display())))?;
             }
+            let quotient = symmetry::quotient_section(&inputs, sum.bundles(), &analysis.spectrum)?;
             if json {
-                Ok(render::json_line(&render::spectrum_json(
-                    &inputs, &analysis,
-                )?)?)
+                let mut v = render::spectrum_json(&inputs, &analysis)?;
+                if let Some((q, _)) = &quotient {
+                    for key in ["group_order", "free", "free_certificate", "downstairs"] {
+                        v[key] = q[key].clone();
+                    }
+                }
+                Ok(render::json_line(&v)?)
             } else {
-                Ok(render::spectrum_text(&analysis))
+                let mut text = render::spectrum_text(&analysis);
+                if let Some((_, t)) = &quotient {
+                    text.push_str(t);
+                }
+                Ok(text)
             }
         }
         Command::Report { model, json } => {
@@ -234,6 +244,14 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                 });
                 if let Some(a) = &analysis {
                     report["spectrum"] = render::spectrum_json(&inputs, a)?;
+                    let sum = args::bundle_sum(&inputs, None)?;
+                    if let Some((q, _)) =
+                        symmetry::quotient_section(&inputs, sum.bundles(), &a.spectrum)?
+                    {
+                        for key in ["group_order", "free", "free_certificate", "downstairs"] {
+                            report[key] = q[key].clone();
+                        }
+                    }
                 }
                 if let Some(check) = &kahler {
                     report["kahler_point"] = serde_json::to_value(check)?;
@@ -264,7 +282,15 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                     ));
                 }
                 match &analysis {
-                    Some(a) => out.push_str(&render::spectrum_text(a)),
+                    Some(a) => {
+                        out.push_str(&render::spectrum_text(a));
+                        let sum = args::bundle_sum(&inputs, None)?;
+                        if let Some((_, t)) =
+                            symmetry::quotient_section(&inputs, sum.bundles(), &a.spectrum)?
+                        {
+                            out.push_str(&t);
+                        }
+                    }
                     None => out.push_str(
                         "\n(no [bundle] section: consistency checks and spectrum skipped)\n",
                     ),

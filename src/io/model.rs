@@ -166,8 +166,10 @@ fn symmetry_spec(
             }
         }
     }
-    if let Some(w) = &raw.wilson_line {
-        if w.len() != ng {
+    if let Some(w) = &raw.wilson_line
+        && w.len() != ng
+    {
+        {
             return Err(invalid(
                 "symmetry.wilson_line".into(),
                 format!("has {} values for {ng} generators", w.len()),

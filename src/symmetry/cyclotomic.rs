@@ -29,7 +29,7 @@ pub fn cyclotomic_polynomial(m: u32) -> Vec<i64> {
     num[0] = -1;
     num[m as usize] = 1;
     for d in 1..m {
-        if m % d == 0 {
+        if m.is_multiple_of(d) {
             num = divide_exact(&num, &cyclotomic_polynomial(d));
         }
     }
@@ -213,7 +213,7 @@ pub fn primitive_root_of_unity(field: &PrimeField, m: u32) -> u64 {
     let p = field.modulus();
     let m64 = m as u64;
     let primes: Vec<u64> = (2..=m64)
-        .filter(|q| m64 % q == 0 && (2..*q).all(|d| q % d != 0))
+        .filter(|q| m64.is_multiple_of(*q) && (2..*q).all(|d| q % d != 0))
         .collect();
     for x in 2u64.. {
         let y = pow(field, x, (p - 1) / m64);

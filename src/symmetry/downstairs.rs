@@ -114,3 +114,127 @@ pub fn coupling_allowed_by_group(
     );
     average(ring, &p).to_integer().to_u64().unwrap_or(0)
 }
+
+/// One multiplet downstairs.
+#[derive(Clone, Debug, Serialize)]
+pub struct DownstairsMultiplet {
+    pub label: String,
+    pub kind: String,
+    /// `h^1` upstairs.
+    pub upstairs: u64,
+    /// Standard-Model components (SU(5) with a Wilson line) or one `invariant` entry.
+    pub components: Vec<DownstairsComponent>,
+    /// Set when the character of `H^1` could not be determined (then `components` is empty).
+    pub note: Option<String>,
+}
+
+/// The downstairs spectrum.
+#[derive(Clone, Debug, Serialize)]
+pub struct Downstairs {
+    pub group_order: usize,
+    /// `−χ(V)/|Γ|` (`None` when not divisible).
+    pub families: Option<i64>,
+    pub multiplets: Vec<DownstairsMultiplet>,
+    /// Higgs doublets kept: `H` components of the `5` multiplets.
+    pub higgs_doublets: u64,
+    /// Colour triplets left in the `5` multiplets (0 = all triplets removed).
+    pub colour_triplets: u64,
+}
+
+/// The downstairs spectrum of a line-bundle sum on `X/Γ` (precondition: `engine` uses `quotient.polynomials`).
+pub fn downstairs_spectrum(
+    quotient: &super::Quotient,
+    spec: &super::SymmetrySpec,
+    engine: &crate::cohomology::CohomologyEngine,
+    spectrum: &crate::bundle::spectrum::Spectrum,
+    bundles: &[Vec<i64>],
+) -> Result<Downstairs, SymmetryError> {
+    use super::character::{bundle_characters, equivariant_structure};
+    let group = &quotient.group;
+    let ring = Cyclotomic::new(group.root_order());
+    let m = group.root_order() as i64;
+    let mut lifts = Vec::new();
+    for (a, k) in bundles.iter().enumerate() {
+        let user = spec.lifts.as_ref().map(|l| l[a].as_slice());
+        let (psi, _) = equivariant_structure(group, k, user, &format!("L_{}", a + 1))?;
+        lifts.push(psi);
+    }
+    let wilson = match &spec.wilson_line {
+        Some(w) => Some(wilson_line(group, w)?),
+        None => None,
+    };
+    let wilson_classes: Option<Vec<i64>> = wilson.clone();
+    let su5 = bundles.len() == 5;
+    let mut out = Vec::new();
+    let (mut doublets, mut triplets) = (0u64, 0u64);
+    for mult in &spectrum.multiplets {
+        let mut psi = vec![0i64; group.linear_order()];
+        for (&b, &dual) in mult.bundles.iter().zip(&mult.duals) {
+            for (p, l) in psi.iter_mut().zip(&lifts[b - 1]) {
+                *p = (*p + if dual { -l } else { *l }).rem_euclid(m);
+            }
+        }
+        let k = &mult.line_bundle;
+        let h = engine
+            .cohomology(k)
+            .map_err(|e| SymmetryError::Invalid(e.to_string()))?
+            .h
+            .clone();
+        let page =
+            crate::cohomology::complex::E1Page::new(group.layout(), engine.config().equations(), k);
+        let chars = bundle_characters(group, &quotient.actions, &page, &h, &psi);
+        let Some(h1) = chars.degrees.get(1).cloned().flatten() else {
+            out.push(DownstairsMultiplet {
+                label: mult.label.clone(),
+                kind: mult.kind.clone(),
+                upstairs: mult.count,
+                components: vec![],
+                note: Some(
+                    "the character of H^1 needs the action on the differentials (not implemented)"
+                        .into(),
+                ),
+            });
+            continue;
+        };
+        let pieces: Vec<(String, String, i64)> =
+            match (su5, sm_components(&mult.kind), &wilson_classes) {
+                (true, Some(list), Some(_)) => list
+                    .iter()
+                    .map(|(n, r, y)| (n.to_string(), r.to_string(), *y))
+                    .collect(),
+                _ => vec![("invariant".into(), mult.kind.clone(), 0)],
+            };
+        let mut comps = Vec::new();
+        for (name, rep, y) in pieces {
+            let count = invariant_count(group, &ring, &h1, wilson_classes.as_deref(), y)?;
+            if mult.kind == "5" {
+                if name == "H" {
+                    doublets += count;
+                } else if name == "T" {
+                    triplets += count;
+                }
+            }
+            comps.push(DownstairsComponent {
+                name,
+                rep,
+                hypercharge: y,
+                count,
+            });
+        }
+        out.push(DownstairsMultiplet {
+            label: mult.label.clone(),
+            kind: mult.kind.clone(),
+            upstairs: mult.count,
+            components: comps,
+            note: None,
+        });
+    }
+    let order = group.order() as i64;
+    Ok(Downstairs {
+        group_order: group.order(),
+        families: (spectrum.families % order == 0).then_some(spectrum.families / order),
+        multiplets: out,
+        higgs_doublets: doublets,
+        colour_triplets: triplets,
+    })
+}

@@ -84,6 +84,11 @@ enum Coord {
     Param { param: usize, exp: i64 },
 }
 
+/// Per coordinate of a factor cycle: `(coordinate, (parameter, exponent of ζ))` or zero.
+type Assignment = Vec<(usize, Option<(usize, i64)>)>;
+/// A restricted equation mod p: block degrees and terms.
+type ModularEquation = (Vec<u32>, Vec<(Vec<u32>, u64)>);
+
 struct ComponentData {
     coords: Vec<Coord>,
     /// Parameter blocks (one per factor cycle): number of parameters.
@@ -142,7 +147,7 @@ fn fixed_components(group: &Group, e: usize) -> (u32, Vec<ComponentData>) {
     let mp = m * lcm_l;
     let scale = mp / m;
     // Options per factor cycle: (coordinates of its variables, number of parameters).
-    let mut options: Vec<Vec<Vec<(usize, Option<(usize, i64)>)>>> = Vec::new();
+    let mut options: Vec<Vec<Assignment>> = Vec::new();
     for (ci, c) in fcycles.iter().enumerate() {
         let r = c.len();
         let mut opts = Vec::new();
@@ -356,7 +361,7 @@ fn decide(
     }
     for prime_index in 0..2 {
         let (field, omega) = prime_with_roots(mp, prime_index);
-        let mut eqs: Vec<(Vec<u32>, Vec<(Vec<u32>, u64)>)> = Vec::new();
+        let mut eqs: Vec<ModularEquation> = Vec::new();
         let mut bad_prime = false;
         for &j in &live {
             let mut terms = Vec::new();
