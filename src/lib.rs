@@ -17,3 +17,4 @@ pub mod io;
 pub mod poly;
 pub mod scan;
 pub mod slope;
+pub mod symmetry;

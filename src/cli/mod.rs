@@ -9,6 +9,7 @@ mod export;
 mod render;
 mod report;
 mod scan;
+mod symmetry;
 
 use args::{ConfigArgs, Inputs};
 use clap::{Parser, Subcommand};
@@ -261,12 +262,21 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
                 sheafwright::io::write_atomic(&path, svg.as_bytes())
                     .map_err(|e| UserError(format!("cannot write {}: {e}", path.display())))?;
             }
+            let quotient = symmetry::quotient_section(&inputs, sum.bundles(), &analysis.spectrum)?;
             if json {
-                Ok(render::json_line(&render::spectrum_json(
-                    &inputs, &analysis,
-                )?)?)
+                let mut v = render::spectrum_json(&inputs, &analysis)?;
+                if let Some((q, _)) = &quotient {
+                    for key in ["group_order", "free", "free_certificate", "downstairs"] {
+                        v[key] = q[key].clone();
+                    }
+                }
+                Ok(render::json_line(&v)?)
             } else {
-                Ok(report::spectrum_text(&analysis))
+                let mut text = report::spectrum_text(&analysis);
+                if let Some((_, t)) = &quotient {
+                    text.push_str(t);
+                }
+                Ok(text)
             }
         }
         Command::Couplings {

@@ -29,6 +29,8 @@ pub struct ReportData<'a> {
     pub analysis: Option<ModelAnalysis>,
     /// The couplings of the model's bundle; a refusal (e.g. a lift too large) is shown, not fatal.
     pub couplings: Option<Result<CouplingReport, String>>,
+    /// The quotient by the model's symmetry (JSON keys and text), when it has a `[symmetry]` section.
+    pub quotient: Option<(serde_json::Value, String)>,
     /// The model file, when the report was asked for by path (named in the export section).
     pub model_path: Option<std::path::PathBuf>,
 }
@@ -70,6 +72,14 @@ impl<'a> ReportData<'a> {
             ),
             None => None,
         };
+        let quotient = match &analysis {
+            Some(a) => super::symmetry::quotient_section(
+                inputs,
+                args::bundle_sum(inputs, None)?.bundles(),
+                &a.spectrum,
+            )?,
+            None => None,
+        };
         Ok(ReportData {
             inputs,
             geometry,
@@ -78,6 +88,7 @@ impl<'a> ReportData<'a> {
             kahler,
             analysis,
             couplings,
+            quotient,
             model_path: None,
         })
     }
@@ -107,6 +118,11 @@ pub fn report_json(d: &ReportData<'_>) -> Result<serde_json::Value, serde_json::
     if let Some(a) = &d.analysis {
         report["spectrum"] = render::spectrum_json(d.inputs, a)?;
     }
+    if let Some((q, _)) = &d.quotient {
+        for key in ["group_order", "free", "free_certificate", "downstairs"] {
+            report[key] = q[key].clone();
+        }
+    }
     if let Some(check) = &d.kahler {
         report["kahler_point"] = serde_json::to_value(check)?;
     }
@@ -129,6 +145,9 @@ pub fn report_text(d: &ReportData<'_>) -> String {
         None => {
             out.push_str("\n(no [bundle] section: consistency checks and spectrum skipped)\n");
         }
+    }
+    if let Some((_, text)) = &d.quotient {
+        out.push_str(text);
     }
     couplings_section(d, &mut out);
     export_section(d, &mut out);

@@ -12,6 +12,8 @@
 use crate::geometry::{ConfigError, Configuration};
 use crate::poly::parametric::{ParametricPolynomial, is_valid_parameter_name};
 use crate::poly::{PolyError, Polynomial, VariableLayout};
+use crate::symmetry::action::{MonomialMap, parse_coordinate};
+use crate::symmetry::{GeneratorSpec, SymmetrySpec};
 use num_bigint::BigInt;
 use num_rational::BigRational;
 use num_traits::{Signed, Zero};
@@ -59,8 +61,132 @@ pub struct RawModel {
     pub bundle: Option<RawBundle>,
     pub kahler: Option<RawKahler>,
     pub cohomology: Option<RawCohomology>,
-    /// Reserved for freely acting symmetries; accepted and kept verbatim, not yet interpreted.
-    pub symmetry: Option<toml::Value>,
+    /// A finite group acting on the coordinates (see `docs/model-file.md`).
+    pub symmetry: Option<RawSymmetry>,
+}
+
+/// `[symmetry]`: generators acting on the homogeneous coordinates, optional lifts and Wilson line.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawSymmetry {
+    /// `N`: phases (and lift / Wilson-line values) are exponents `k` of `ζ_N = exp(2πi/N)`; default 1.
+    pub phase_order: Option<i64>,
+    pub generators: Vec<RawGenerator>,
+    /// Per line bundle of `[bundle]`: the lift's value on each generator (exponents of `ζ_N`).
+    pub lifts: Option<Vec<Vec<i64>>>,
+    /// The Wilson line's value on each generator (exponents of `ζ_N`).
+    pub wilson_line: Option<Vec<i64>>,
+}
+
+/// One `[[symmetry.generators]]` entry.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawGenerator {
+    pub name: Option<String>,
+    /// The image coordinate of every coordinate, in order (`x1_0, x1_1, …`); default: identity.
+    pub images: Option<Vec<String>>,
+    /// The phase exponent `k` of every coordinate (`x ↦ ζ_N^k x'`); default: zeros.
+    pub phases: Option<Vec<i64>>,
+}
+
+/// Largest `phase_order` accepted.
+pub const MAX_PHASE_ORDER: i64 = 1000;
+/// Largest number of generators accepted.
+pub const MAX_GENERATORS: usize = 8;
+
+fn symmetry_spec(
+    raw: RawSymmetry,
+    layout: &VariableLayout,
+    bundles: Option<usize>,
+) -> Result<SymmetrySpec, ModelError> {
+    let invalid = |field: String, message: String| ModelError::Invalid { field, message };
+    let n = raw.phase_order.unwrap_or(1);
+    if !(1..=MAX_PHASE_ORDER).contains(&n) {
+        return Err(invalid(
+            "symmetry.phase_order".into(),
+            format!("{n} is out of range (1..={MAX_PHASE_ORDER})"),
+        ));
+    }
+    let n = n as u32;
+    if raw.generators.is_empty() || raw.generators.len() > MAX_GENERATORS {
+        return Err(invalid(
+            "symmetry.generators".into(),
+            format!(
+                "give between 1 and {MAX_GENERATORS} generators, not {}",
+                raw.generators.len()
+            ),
+        ));
+    }
+    let nv = layout.nvars();
+    let mut generators = Vec::new();
+    for (g, rg) in raw.generators.into_iter().enumerate() {
+        let name = rg.name.unwrap_or_else(|| format!("g{}", g + 1));
+        let field = format!("symmetry.generators[{g}] ({name})");
+        let image = match rg.images {
+            None => (0..nv).collect(),
+            Some(list) => {
+                if list.len() != nv {
+                    return Err(invalid(
+                        field,
+                        format!("images has {} entries for {nv} coordinates", list.len()),
+                    ));
+                }
+                let mut out = Vec::with_capacity(nv);
+                for s in &list {
+                    out.push(parse_coordinate(s, layout).map_err(|m| invalid(field.clone(), m))?);
+                }
+                out
+            }
+        };
+        let phase = match rg.phases {
+            None => vec![0; nv],
+            Some(p) => p,
+        };
+        let map = MonomialMap::new(layout, image, phase, n).map_err(|m| invalid(field, m))?;
+        generators.push(GeneratorSpec { name, map });
+    }
+    let ng = generators.len();
+    if let Some(lifts) = &raw.lifts {
+        match bundles {
+            None => {
+                return Err(invalid(
+                    "symmetry.lifts".into(),
+                    "lifts need a [bundle] section".into(),
+                ));
+            }
+            Some(r) if r != lifts.len() => {
+                return Err(invalid(
+                    "symmetry.lifts".into(),
+                    format!("has {} entries for {r} line bundles", lifts.len()),
+                ));
+            }
+            _ => {}
+        }
+        for (a, l) in lifts.iter().enumerate() {
+            if l.len() != ng {
+                return Err(invalid(
+                    format!("symmetry.lifts[{a}]"),
+                    format!("has {} values for {ng} generators", l.len()),
+                ));
+            }
+        }
+    }
+    if let Some(w) = &raw.wilson_line
+        && w.len() != ng
+    {
+        {
+            return Err(invalid(
+                "symmetry.wilson_line".into(),
+                format!("has {} values for {ng} generators", w.len()),
+            ));
+        }
+    }
+    Ok(SymmetrySpec {
+        phase_order: n,
+        generators,
+        lifts: raw.lifts,
+        wilson_line: raw.wilson_line,
+    })
 }
 
 /// `[ambient]`.
@@ -136,7 +262,7 @@ pub struct Model {
     mode: Option<PolynomialMode>,
     seed: Option<u64>,
     parameter: Option<ModelParameter>,
-    symmetry: Option<toml::Value>,
+    symmetry: Option<SymmetrySpec>,
 }
 
 impl Model {
@@ -356,6 +482,14 @@ impl Model {
                 (mode, c.seed)
             }
         };
+        let symmetry = match raw.symmetry {
+            None => None,
+            Some(rs) => Some(symmetry_spec(
+                rs,
+                &layout,
+                line_bundles.as_ref().map(Vec::len),
+            )?),
+        };
         Ok(Model {
             name: raw.name.unwrap_or_else(|| default_name.to_string()),
             notes: raw.notes,
@@ -366,7 +500,7 @@ impl Model {
             mode,
             seed,
             parameter,
-            symmetry: raw.symmetry,
+            symmetry,
         })
     }
 
@@ -402,8 +536,8 @@ impl Model {
     pub fn seed(&self) -> Option<u64> {
         self.seed
     }
-    /// The reserved symmetry section, verbatim.
-    pub fn symmetry(&self) -> Option<&toml::Value> {
+    /// The validated `[symmetry]` section.
+    pub fn symmetry(&self) -> Option<&SymmetrySpec> {
         self.symmetry.as_ref()
     }
 }
@@ -547,5 +681,31 @@ parameter_value = "3/2"
             .unwrap_err()
             .to_string();
         assert!(e.contains("unknown name"), "{e}");
+    }
+
+    #[test]
+    fn symmetry_section_is_typed_and_validated() {
+        let sym = format!(
+            "{GOOD}[symmetry]\nphase_order = 2\nwilson_line = [1]\n[[symmetry.generators]]\nname = \"a\"\nphases = [0,1,0,1,0,1,0,1]\n"
+        );
+        let m = Model::from_toml_str(&sym, "x").unwrap();
+        let s = m.symmetry().unwrap();
+        assert_eq!(s.phase_order, 2);
+        assert_eq!(s.generators[0].name, "a");
+        // A generator mapping P^1 coordinates into two different factors breaks the ambient structure.
+        let bad = sym.replace(
+            "phases = [0,1,0,1,0,1,0,1]",
+            "images = [\"x1_0\", \"x2_0\", \"x1_1\", \"x2_1\", \"x3_0\", \"x3_1\", \"x4_0\", \"x4_1\"]",
+        );
+        let e = Model::from_toml_str(&bad, "x").unwrap_err().to_string();
+        assert!(
+            e.contains("symmetry.generators[0] (a)") && e.contains("ambient structure"),
+            "{e}"
+        );
+        let bad = sym.replace("wilson_line = [1]", "wilson_line = [1, 2]");
+        let e = Model::from_toml_str(&bad, "x").unwrap_err().to_string();
+        assert!(e.contains("symmetry.wilson_line"), "{e}");
+        let bad = sym.replace("phase_order = 2", "phase_order = 0");
+        assert!(Model::from_toml_str(&bad, "x").is_err());
     }
 }
