@@ -96,23 +96,32 @@ pub fn cohomology_single(
     let _ = writeln!(
         out,
         "  method      {} ({} polynomials{})",
-        r.method.kind,
-        r.method.polynomials,
+        r.method.kind(),
+        r.method.polynomials_str(),
         r.method
-            .seed
+            .seed()
             .map(|s| format!(", seed {s}"))
             .unwrap_or_default()
     );
-    if let Some(f) = &r.method.field {
-        let primes = if r.method.primes.is_empty() {
+    if let Some(f) = r.method.field() {
+        let primes = r.method.primes();
+        let primes = if primes.is_empty() {
             String::new()
         } else {
-            format!(", p = {}", join(&r.method.primes, ", "))
+            format!(", p = {}", join(&primes, ", "))
         };
         let _ = writeln!(out, "  field       {f}{primes}");
     }
-    let _ = writeln!(out, "  certified   {}", r.method.certification);
-    if r.method.higher_differentials {
+    let _ = writeln!(out, "  proven      {}", r.method.certification());
+    let per_degree: Vec<String> = r
+        .method
+        .degrees()
+        .iter()
+        .enumerate()
+        .map(|(q, d)| format!("h^{q}: {}", d.describe()))
+        .collect();
+    let _ = writeln!(out, "  provenance  {}", per_degree.join("; "));
+    if r.method.higher_differentials() {
         let _ = writeln!(
             out,
             "  note        higher differentials d_r (r >= 2) were computed"
@@ -191,7 +200,7 @@ pub fn cohomology_row(r: &sheafwright::cohomology::LineBundleCohomology) -> Stri
         join(&r.bundle, ","),
         join(&r.h, " "),
         r.index,
-        r.method.kind
+        r.method.kind()
     )
 }
 
@@ -242,7 +251,7 @@ pub fn spectrum_text(a: &sheafwright::analysis::ModelAnalysis) -> String {
             i + 1,
             format!("O_X({})", join(&lb.bundle, ",")),
             join(&lb.h, " "),
-            lb.method.kind
+            lb.method.kind()
         );
     }
     let _ = writeln!(out, "\n== Consistency ==");
