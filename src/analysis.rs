@@ -20,6 +20,8 @@ pub enum AnalysisError {
     Bundle(#[from] BundleError),
     #[error("{0}")]
     Cohomology(#[from] CohomologyError),
+    #[error("{0}")]
+    Geometry(#[from] crate::geometry::GeometryError),
     #[error("the spectrum needs a Calabi-Yau threefold; this configuration has dimension {0}")]
     NotThreefold(usize),
     #[error("slope-zero certification: {0}")]
@@ -109,7 +111,7 @@ pub fn analyse(
         return Err(AnalysisError::NotThreefold(config.dimension()));
     }
     let geometry = Geometry::new(config);
-    let summary = geometry.summary();
+    let summary = geometry.summary()?;
     let triple = summary.triple.clone().expect("threefold");
     let c2 = summary.c2.clone().expect("threefold");
     let callback = |k: &[i64]| -> Result<Vec<u64>, String> {

@@ -122,7 +122,7 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
         Command::Geometry { config, json } => {
             let inputs = Inputs::from_args(&config)?;
             let geometry = Geometry::new(inputs.config());
-            let summary = geometry.summary();
+            let summary = geometry.summary()?;
             if json {
                 Ok(render::json_line(&summary)?)
             } else {
@@ -204,7 +204,7 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
             let inputs = Inputs::from_model_path(&model)?;
             let engine = args::PolyArgs::default().engine(&inputs)?;
             let geometry = Geometry::new(inputs.config());
-            let summary = geometry.summary();
+            let summary = geometry.summary()?;
             let favourability = analysis::favourability(&engine)?;
             let analysis = match inputs.model().and_then(|m| m.line_bundles()) {
                 Some(_) => Some(analysis::analyse(

@@ -585,3 +585,28 @@ impl CohomologyEngine {
         (terms, truncated)
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Issue 11: ranks that would give a negative dimension are an error, not a clamp to 0.
+    #[test]
+    fn regression_issue_11_negative_dimension_is_an_error() {
+        let tetra = Configuration::new(&[1, 1, 1, 1], &[vec![2, 2, 2, 2]]).unwrap();
+        let layout = VariableLayout::new(tetra.dims());
+        let k = [-2, 2, 2, 2];
+        let page = E1Page::new(&layout, tetra.equations(), &k);
+        let degrees: Vec<i64> = (-1..=4).collect();
+        // dim E_1^0 = 3 (S = {1}, q = 1 gives degree 0), dim E_1^1 = 27; a claimed rank of 5 for D_0 is
+        // impossible and used to be clamped.
+        assert_eq!(page.dim(0), 3);
+        let r = cohomology_from_ranks(&k, &page, &degrees, 3, |m| if m == 0 { 5 } else { 0 });
+        assert!(
+            matches!(r, Err(CohomologyError::NegativeDimension { .. })),
+            "{r:?}"
+        );
+        let ok = cohomology_from_ranks(&k, &page, &degrees, 3, |m| if m == 0 { 3 } else { 0 });
+        assert_eq!(ok.unwrap(), vec![0, 24, 0, 0]);
+    }
+}
