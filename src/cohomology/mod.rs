@@ -57,6 +57,19 @@ pub enum CohomologyError {
         "the given polynomials do not cut out a complete intersection: hypercohomology in degree {degree} for bundle {bundle:?} (a degenerate or repeated equation)"
     )]
     NotCompleteIntersection { bundle: Vec<i64>, degree: i64 },
+    #[error(
+        "equation {equation}: the given polynomial is in {got} variables, the ambient space has {expected}"
+    )]
+    PolynomialVariables {
+        equation: usize,
+        got: usize,
+        expected: usize,
+    },
+    #[error("equation {equation}: {source}")]
+    BadPolynomial {
+        equation: usize,
+        source: crate::poly::PolyError,
+    },
     #[error("the given polynomial coefficients are not defined modulo {0}")]
     BadPrime(u64),
     #[error(
@@ -215,8 +228,10 @@ fn rational_text(c: &BigRational) -> String {
 }
 
 impl CohomologyEngine {
-    /// An engine for `config` with the given polynomial choice. Given polynomials must be one per equation and
-    /// already checked against the declared multidegrees (the model loader does this).
+    /// An engine for `config` with the given polynomial choice. Given polynomials must be one per equation, in
+    /// the configuration's variables, each a non-zero polynomial whose every term has its equation's
+    /// multidegree (and not divisible by a variable); otherwise a [`CohomologyError`] names the equation and
+    /// the offending monomial.
     pub fn new(config: &Configuration, choice: PolynomialChoice) -> Result<Self, CohomologyError> {
         let layout = VariableLayout::new(config.dims());
         let polys = match &choice {
@@ -239,6 +254,22 @@ impl CohomologyEngine {
                         count: p.len(),
                         expected: config.codimension(),
                     });
+                }
+                // A term of the wrong multidegree would silently fall outside every Bott basis.
+                for (j, (poly, q)) in p.iter().zip(config.equations()).enumerate() {
+                    if poly.nvars() != layout.nvars() {
+                        return Err(CohomologyError::PolynomialVariables {
+                            equation: j + 1,
+                            got: poly.nvars(),
+                            expected: layout.nvars(),
+                        });
+                    }
+                    poly.check_equation(&layout, q).map_err(|source| {
+                        CohomologyError::BadPolynomial {
+                            equation: j + 1,
+                            source,
+                        }
+                    })?;
                 }
                 p.clone()
             }
@@ -589,6 +620,27 @@ impl CohomologyEngine {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// Issue 11: a given polynomial with a term of the wrong multidegree is refused, naming the equation and
+    /// the monomial (it used to drop the term silently).
+    #[test]
+    fn regression_issue_11_given_polynomial_degree_is_checked() {
+        let c = Configuration::new(&[1, 4], &[vec![1, 1], vec![1, 4]]).unwrap();
+        let layout = VariableLayout::new(c.dims());
+        let good0 = Polynomial::parse("x1_0*x2_0 + x1_1*x2_1", &layout).unwrap();
+        let bad1 = Polynomial::parse("x1_0*x2_0^4 + x1_1*x2_1^3", &layout).unwrap();
+        let e = CohomologyEngine::new(&c, PolynomialChoice::Given(vec![good0, bad1])).err();
+        let Some(err) = e else {
+            panic!("a wrong multidegree must be refused")
+        };
+        let text = err.to_string();
+        assert!(
+            matches!(err, CohomologyError::BadPolynomial { equation: 2, .. }),
+            "{text}"
+        );
+        assert!(text.starts_with("equation 2"), "{text}");
+        assert!(text.contains("x1_1*x2_1^3"), "{text}");
+    }
 
     /// Issue 11: ranks that would give a negative dimension are an error, not a clamp to 0.
     #[test]

@@ -109,8 +109,7 @@ pub enum GeometryError {
 }
 
 fn to_i64_checked(what: &'static str, v: BigInt) -> Result<i64, GeometryError> {
-    v.to_i64()
-        .ok_or(GeometryError::Overflow { what, value: v })
+    v.to_i64().ok_or(GeometryError::Overflow { what, value: v })
 }
 
 /// A validated Calabi-Yau complete intersection configuration (see the module docs for the invariant).

@@ -310,8 +310,16 @@ fn boundary_only_zero_is_never_exists() {
     // need t1t2 = 0, then t2t3 = t1t3 = 0: only the vertices of the closed cone.
     let d = toy_d123();
     let b = vec![vec![1, -1, 1], vec![-1, 1, 1]];
-    assert!(slope_exact(&d, &b[0], &[q(0, 1), q(0, 1), q(1, 1)]).unwrap().is_zero());
-    assert!(slope_exact(&d, &b[1], &[q(0, 1), q(0, 1), q(1, 1)]).unwrap().is_zero());
+    assert!(
+        slope_exact(&d, &b[0], &[q(0, 1), q(0, 1), q(1, 1)])
+            .unwrap()
+            .is_zero()
+    );
+    assert!(
+        slope_exact(&d, &b[1], &[q(0, 1), q(0, 1), q(1, 1)])
+            .unwrap()
+            .is_zero()
+    );
     let res = run(&d, &b);
     assert_ne!(res.status(), "exists");
     // A boundary point is rejected as a certificate.
