@@ -97,6 +97,9 @@ pub struct ModelAnalysis {
     /// Consistency checks, the spectrum and the builder flags (keys `rank`, `c1_zero`, `c2_bundle`, `anomaly_ok`,
     /// `index`, `families`, `multiplets`, …).
     pub spectrum: Spectrum,
+    /// What the slope-zero answer covers: the image of the ambient Kähler cone (`t_i > 0`), with the
+    /// favourability caveat ([`slope_zero_scope`]).
+    pub slope_zero_scope: String,
     /// The slope-zero certificate (`status` in `exists`, `none`, `undecided`).
     pub slope_zero: SlopeZero,
 }
@@ -128,9 +131,11 @@ pub fn analyse(
         .collect::<Result<Vec<_>, _>>()?;
     let slope_zero = certify_slope_zero(&triple, bundles.bundles(), &SlopeOptions::default())
         .map_err(|e| AnalysisError::Slope(format!("{e:?}")))?;
+    let favourability = favourability(engine)?;
     Ok(ModelAnalysis {
         geometry: summary,
-        favourability: favourability(engine)?,
+        slope_zero_scope: slope_zero_scope(&slope_zero, &favourability),
+        favourability,
         line_bundles,
         spectrum,
         slope_zero,
@@ -166,4 +171,53 @@ pub fn kahler_point_check(
         all_slopes_zero: slopes.iter().all(num_traits::Zero::is_zero),
         slopes: slopes.iter().map(ToString::to_string).collect(),
     })
+}
+
+/// What a slope-zero answer covers. The certifier searches `t_i > 0`, the image of the ambient Kähler cone,
+/// which lies in the Kähler cone of X (restrictions of ample classes are ample) but need not be all of it:
+/// when favourability is not certified, `H^{1,1}(X)` may have directions outside the span of the `J_i`, and
+/// even for a favourable X the Kähler cone can be larger than the image. So "exists" is a genuine Kähler
+/// class, while "none" and "undecided" speak only of the image.
+pub fn slope_zero_scope(slope: &SlopeZero, fav: &Favourability) -> String {
+    let caveat = if fav.status == "favourable" {
+        "X is favourable (the J_i span H^{1,1}(X)), but its Kähler cone may still be larger than this image"
+    } else {
+        "favourability is not certified: H^{1,1}(X) may have directions outside the span of the J_i, which were not searched"
+    };
+    match slope {
+        SlopeZero::Exists(_) => {
+            "a common zero in the image of the ambient Kähler cone (t_i > 0), hence a Kähler class of X".into()
+        }
+        SlopeZero::None(_) => format!(
+            "none in the image of the ambient Kähler cone (t_i > 0) only; {caveat}"
+        ),
+        SlopeZero::Undecided { .. } => format!("undecided in the image of the ambient Kähler cone (t_i > 0); {caveat}"),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Issue 11 item 6: "none" states its scope, and the caveat depends on favourability.
+    #[test]
+    fn regression_issue_11_slope_none_states_its_scope() {
+        let none = SlopeZero::None(crate::slope::NoneCertificate::SignObstruction {
+            bundle: 0,
+            sign: crate::slope::Sign::Positive,
+        });
+        let not = Favourability {
+            status: "not_certified".into(),
+            reason: String::new(),
+        };
+        let fav = Favourability {
+            status: "favourable".into(),
+            reason: String::new(),
+        };
+        let a = slope_zero_scope(&none, &not);
+        assert!(a.contains("image of the ambient Kähler cone"), "{a}");
+        assert!(a.contains("favourability is not certified"), "{a}");
+        let b = slope_zero_scope(&none, &fav);
+        assert!(b.contains("may still be larger"), "{b}");
+    }
 }

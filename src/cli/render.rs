@@ -214,6 +214,7 @@ pub fn spectrum_json(
     v["model"] = inputs.name().into();
     v["configuration"] = a.geometry.configuration.clone().into();
     v["slope_zero"] = serde_json::to_value(&a.slope_zero)?;
+    v["slope_zero_scope"] = a.slope_zero_scope.clone().into();
     v["favourability"] = serde_json::to_value(&a.favourability)?;
     v["line_bundles"] = serde_json::to_value(&a.line_bundles)?;
     Ok(v)
@@ -285,6 +286,7 @@ pub fn spectrum_text(a: &sheafwright::analysis::ModelAnalysis) -> String {
         );
     }
     let _ = writeln!(out, "  slope-zero locus     {}", a.slope_zero.status());
+    let _ = writeln!(out, "  scope                {}", a.slope_zero_scope);
     if let Ok(v) = serde_json::to_value(&a.slope_zero) {
         let detail = v
             .get("certificate")
