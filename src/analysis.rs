@@ -20,6 +20,8 @@ pub enum AnalysisError {
     Bundle(#[from] BundleError),
     #[error("{0}")]
     Cohomology(#[from] CohomologyError),
+    #[error("{0}")]
+    Geometry(#[from] crate::geometry::GeometryError),
     #[error("the spectrum needs a Calabi-Yau threefold; this configuration has dimension {0}")]
     NotThreefold(usize),
     #[error("slope-zero certification: {0}")]
@@ -95,6 +97,9 @@ pub struct ModelAnalysis {
     /// Consistency checks, the spectrum and the builder flags (keys `rank`, `c1_zero`, `c2_bundle`, `anomaly_ok`,
     /// `index`, `families`, `multiplets`, …).
     pub spectrum: Spectrum,
+    /// What the slope-zero answer covers: the image of the ambient Kähler cone (`t_i > 0`), with the
+    /// favourability caveat ([`slope_zero_scope`]).
+    pub slope_zero_scope: String,
     /// The slope-zero certificate (`status` in `exists`, `none`, `undecided`).
     pub slope_zero: SlopeZero,
 }
@@ -109,7 +114,7 @@ pub fn analyse(
         return Err(AnalysisError::NotThreefold(config.dimension()));
     }
     let geometry = Geometry::new(config);
-    let summary = geometry.summary();
+    let summary = geometry.summary()?;
     let triple = summary.triple.clone().expect("threefold");
     let c2 = summary.c2.clone().expect("threefold");
     let callback = |k: &[i64]| -> Result<Vec<u64>, String> {
@@ -126,9 +131,11 @@ pub fn analyse(
         .collect::<Result<Vec<_>, _>>()?;
     let slope_zero = certify_slope_zero(&triple, bundles.bundles(), &SlopeOptions::default())
         .map_err(|e| AnalysisError::Slope(format!("{e:?}")))?;
+    let favourability = favourability(engine)?;
     Ok(ModelAnalysis {
         geometry: summary,
-        favourability: favourability(engine)?,
+        slope_zero_scope: slope_zero_scope(&slope_zero, &favourability),
+        favourability,
         line_bundles,
         spectrum,
         slope_zero,
@@ -213,6 +220,28 @@ pub fn hodge_numbers(geometry: &GeometrySummary, favourability: &Favourability) 
     }
 }
 
+/// What a slope-zero answer covers. The certifier searches `t_i > 0`, the image of the ambient Kähler cone,
+/// which lies in the Kähler cone of X (restrictions of ample classes are ample) but need not be all of it:
+/// when favourability is not certified, `H^{1,1}(X)` may have directions outside the span of the `J_i`, and
+/// even for a favourable X the Kähler cone can be larger than the image. So "exists" is a genuine Kähler
+/// class, while "none" and "undecided" speak only of the image.
+pub fn slope_zero_scope(slope: &SlopeZero, fav: &Favourability) -> String {
+    let caveat = if fav.status == "favourable" {
+        "X is favourable (the J_i span H^{1,1}(X)), but its Kähler cone may still be larger than this image"
+    } else {
+        "favourability is not certified: H^{1,1}(X) may have directions outside the span of the J_i, which were not searched"
+    };
+    match slope {
+        SlopeZero::Exists(_) => {
+            "a common zero in the image of the ambient Kähler cone (t_i > 0), hence a Kähler class of X".into()
+        }
+        SlopeZero::None(_) => format!(
+            "none in the image of the ambient Kähler cone (t_i > 0) only; {caveat}"
+        ),
+        SlopeZero::Undecided { .. } => format!("undecided in the image of the ambient Kähler cone (t_i > 0); {caveat}"),
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -225,7 +254,7 @@ mod tests {
             CohomologyEngine::new(&config, PolynomialChoice::Generic { seed: DEFAULT_SEED })
                 .unwrap();
         let fav = favourability(&engine).unwrap();
-        hodge_numbers(&Geometry::new(&config).summary(), &fav)
+        hodge_numbers(&Geometry::new(&config).summary().unwrap(), &fav)
     }
 
     #[test]
@@ -254,8 +283,30 @@ mod tests {
             status: "not_certified".into(),
             reason: "test".into(),
         };
-        let h = hodge_numbers(&Geometry::new(&config).summary(), &fav);
+        let h = hodge_numbers(&Geometry::new(&config).summary().unwrap(), &fav);
         assert_eq!((h.h11, h.h21), (None, None));
         assert!(h.provenance.contains("not certified"));
+    }
+
+    /// Issue 11 item 6: "none" states its scope, and the caveat depends on favourability.
+    #[test]
+    fn regression_issue_11_slope_none_states_its_scope() {
+        let none = SlopeZero::None(crate::slope::NoneCertificate::SignObstruction {
+            bundle: 0,
+            sign: crate::slope::Sign::Positive,
+        });
+        let not = Favourability {
+            status: "not_certified".into(),
+            reason: String::new(),
+        };
+        let fav = Favourability {
+            status: "favourable".into(),
+            reason: String::new(),
+        };
+        let a = slope_zero_scope(&none, &not);
+        assert!(a.contains("image of the ambient Kähler cone"), "{a}");
+        assert!(a.contains("favourability is not certified"), "{a}");
+        let b = slope_zero_scope(&none, &fav);
+        assert!(b.contains("may still be larger"), "{b}");
     }
 }

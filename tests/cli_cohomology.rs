@@ -33,8 +33,62 @@ fn single_bundle_json_contract() {
     assert_eq!(v["h"], serde_json::json!([0, 24, 0, 0]));
     assert_eq!(v["method"]["kind"], "ranks");
     assert_eq!(v["method"]["polynomials"], "generic");
-    assert!(v["method"]["primes"].as_array().unwrap().len() >= 2);
+    assert!(!v["method"]["primes"].as_array().unwrap().is_empty());
     assert!(v["method"]["seed"].is_u64());
+    // h^1 = 24 is the only non-zero group, so the one rank (D_0) is forced from one prime and the value is
+    // the generic one; no d_r reaches degrees 2 and 3.
+    assert_eq!(
+        v["method"]["degrees"],
+        serde_json::json!(["generic", "generic", "e1_dimensions", "e1_dimensions"])
+    );
+    assert_eq!(
+        v["method"]["ranks"][0]["proof"],
+        "modular_forced_by_vanishing"
+    );
+    assert!(
+        !v["method"]["certification"]
+            .as_str()
+            .unwrap()
+            .contains("probability")
+    );
+}
+
+/// Issue 12 item 4: O(-4,4,0,0) on the tetra-quadric is fixed by the E_1 page (its two groups sit at p = 0
+/// and p = 1 in adjacent degrees, and no d_r goes from p = 0 to p = 1); the old engine ranked a zero matrix and
+/// printed "with high probability".
+#[test]
+fn regression_issue_12_result_fixed_by_e1_dimensions_says_so() {
+    let v = json(&[
+        "cohomology",
+        "--ambient",
+        "1,1,1,1",
+        "--equations",
+        "2,2,2,2",
+        "--bundle=-4,4,0,0",
+        "--json",
+    ]);
+    assert_eq!(v["h"], serde_json::json!([0, 15, 15, 0]));
+    assert_eq!(v["method"]["kind"], "dimensions");
+    assert_eq!(
+        v["method"]["degrees"],
+        serde_json::json!([
+            "e1_dimensions",
+            "e1_dimensions",
+            "e1_dimensions",
+            "e1_dimensions"
+        ])
+    );
+    let (code, text, err) = common::sheafwright(&[
+        "cohomology",
+        "--ambient",
+        "1,1,1,1",
+        "--equations",
+        "2,2,2,2",
+        "--bundle=-4,4,0,0",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert!(text.contains("h^1: fixed by E_1 dimensions"), "{text}");
+    assert!(!text.contains("probability"), "{text}");
 }
 
 #[test]

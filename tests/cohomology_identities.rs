@@ -127,8 +127,8 @@ fn higher_differentials_are_computed_and_consistent() {
     for k in HIGHER {
         let r = e.cohomology(k).unwrap();
         let minus: Vec<i64> = k.iter().map(|x| -x).collect();
-        if r.method.higher_differentials {
-            assert_eq!(r.method.kind, "ranks");
+        if r.method.higher_differentials() {
+            assert_eq!(r.method.kind(), "ranks");
         }
         let d = e.cohomology(&minus).unwrap();
         let rev: Vec<u64> = d.h.iter().rev().copied().collect();
@@ -139,7 +139,7 @@ fn higher_differentials_are_computed_and_consistent() {
         e.cohomology(&HIGHER[0])
             .unwrap()
             .method
-            .higher_differentials
+            .higher_differentials()
     );
     // Without d_2 the answer for O(0,-2,-2,-2,-2) would be h^3 = 81 and h^4 = 1 (outside 0..=3): the
     // d_2 of rank 1 is what makes it (0,0,0,80).
@@ -333,4 +333,27 @@ fn favourability_certificate() {
     assert_eq!(Geometry::new(&schoen).euler(), num_bigint::BigInt::from(0));
     let fav = sheafwright::analysis::favourability(&engine(&schoen)).unwrap();
     assert_eq!(fav.status, "not_certified");
+}
+
+/// A non-zero d_2 decides the answer, checked without the engine's ranks. On P1^5 [(1,1,1,1,2);(1,1,1,1,0)]
+/// the E_1 page of O(0,2,2,2,2) is H^0(A, O(0,2,2,2,2)) (dim 81, p = 0, degree 0) and
+/// H^1(A, O(−2,0,0,0,0)) e_{12} (dim 1, p = 2, degree −1): no d_1 joins them (it would need a group at p = 1),
+/// so without d_2 the answer would be h^0 = 81 with hypercohomology 1 in degree −1. HRR (the Chow ring, not
+/// the engine) gives χ = 80, and the page has nothing in degrees 1..3, so h^0 = 80: d_2 must have rank 1.
+#[test]
+fn nonzero_d2_is_forced_by_hrr_and_the_e1_page() {
+    let c = &configs()[5];
+    let k = [0, 2, 2, 2, 2];
+    let e = engine(c);
+    let r = e.cohomology(&k).unwrap();
+    let mut groups: Vec<(usize, usize, usize)> = r.e1.iter().map(|g| (g.p, g.q, g.dim)).collect();
+    groups.sort();
+    assert_eq!(groups, vec![(0, 0, 81), (2, 1, 1)]);
+    let chi = Geometry::new(c).index(&k).unwrap();
+    assert_eq!(chi, num_bigint::BigInt::from(80));
+    assert_eq!(r.h, vec![80, 0, 0, 0]);
+    assert!(r.method.higher_differentials());
+    let d = r.method.maps();
+    assert_eq!(d.len(), 1);
+    assert_eq!((d[0].degree, d[0].rank), (-1, 1));
 }

@@ -109,7 +109,7 @@ fn euler_numbers_match_published_values() {
     for row in ROWS {
         let g = geometry(row);
         assert_eq!(
-            g.summary().euler,
+            g.summary().unwrap().euler,
             row.euler,
             "{:?} ({})",
             row.ambient,
@@ -191,7 +191,7 @@ fn closed_form_c2_agrees_with_ring_expansion() {
 fn structure_sheaf_index_is_zero_on_calabi_yau_threefolds() {
     // χ(O_X) = 1 − 0 + 0 − 1 = 0 on a Calabi-Yau threefold (common practice).
     for row in ROWS {
-        assert_eq!(geometry(row).summary().structure_sheaf_index, 0);
+        assert_eq!(geometry(row).summary().unwrap().structure_sheaf_index, 0);
     }
 }
 
@@ -199,13 +199,13 @@ fn structure_sheaf_index_is_zero_on_calabi_yau_threefolds() {
 fn higher_dimensional_cases() {
     // K3 as a quartic in P3: Euler number 24 (textbook, [Hub92]); χ(O) = 2.
     let k3 = Geometry::new(&Configuration::new(&[3], &[vec![4]]).unwrap());
-    assert_eq!(k3.summary().euler, 24);
-    assert_eq!(k3.summary().structure_sheaf_index, 2);
+    assert_eq!(k3.summary().unwrap().euler, 24);
+    assert_eq!(k3.summary().unwrap().structure_sheaf_index, 2);
     // Sextic fourfold in P5: Euler number 2610 (from memory), χ(O) = 2.
     let s = Geometry::new(&Configuration::new(&[5], &[vec![6]]).unwrap());
-    assert_eq!(s.summary().euler, 2610);
-    assert_eq!(s.summary().structure_sheaf_index, 2);
+    assert_eq!(s.summary().unwrap().euler, 2610);
+    assert_eq!(s.summary().unwrap().structure_sheaf_index, 2);
     // Elliptic curve as a cubic in P2: Euler number 0.
     let e = Geometry::new(&Configuration::new(&[2], &[vec![3]]).unwrap());
-    assert_eq!(e.summary().euler, 0);
+    assert_eq!(e.summary().unwrap().euler, 0);
 }

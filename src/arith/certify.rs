@@ -213,12 +213,39 @@ pub fn certified_rank(m: &SparseMatrix<BigRational>, primes: &[u64]) -> Option<u
 
 /// Exact rank of a rational matrix.
 ///
-/// First tries [`certified_rank`] with [`LARGE_PRIMES`] (fast, and proven when it answers);
+/// First tries [`certified_rank`] with [`LARGE_PRIMES`] on the matrix and its transpose (fast, and proven when
+/// it answers);
 /// otherwise falls back to sparse Gaussian elimination over Q with exact `BigRational`
 /// arithmetic. Either way the answer is exact. Cost: typically a few eliminations mod p plus
 /// `ncols - rank` exact products; the fallback can suffer coefficient growth.
 pub fn rank_exact(m: &SparseMatrix<BigRational>) -> usize {
-    certified_rank(m, &LARGE_PRIMES).unwrap_or_else(|| rank(&RationalField, m))
+    rank_exact_with_proof(m).0
+}
+
+/// How [`rank_exact_with_proof`] proved its answer.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum ExactRankProof {
+    /// A rank modulo a prime (a lower bound over Q) together with `ncols − rank` kernel vectors verified
+    /// exactly over Q (an upper bound): [`certified_rank`] with [`LARGE_PRIMES`].
+    ModularWithKernel,
+    /// Plain sparse Gaussian elimination over Q with exact `BigRational` arithmetic (used when the
+    /// modular certificate did not close, e.g. when the reduced echelon form has entries too large to
+    /// reconstruct from [`LARGE_PRIMES`]).
+    Elimination,
+}
+
+/// [`rank_exact`] together with the way the rank was proven. Same cost as [`rank_exact`].
+///
+/// The modular certificate is tried on `m` and on its transpose (same rank), the one with fewer columns
+/// first: fewer kernel vectors to verify, and the reduced echelon form of the other orientation often has
+/// entries too large to reconstruct.
+pub fn rank_exact_with_proof(m: &SparseMatrix<BigRational>) -> (usize, ExactRankProof) {
+    let t = m.transpose();
+    let (first, second) = if m.ncols <= m.nrows { (m, &t) } else { (&t, m) };
+    match certified_rank(first, &LARGE_PRIMES).or_else(|| certified_rank(second, &LARGE_PRIMES)) {
+        Some(r) => (r, ExactRankProof::ModularWithKernel),
+        None => (rank(&RationalField, m), ExactRankProof::Elimination),
+    }
 }
 
 #[cfg(test)]

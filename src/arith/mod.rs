@@ -15,8 +15,8 @@ pub mod interpolate;
 pub mod sparse;
 
 pub use certify::{
-    ModularRank, certified_rank, clear_denominators, rank_exact, rank_multi_modular,
-    rational_reconstruction,
+    ExactRankProof, ModularRank, certified_rank, clear_denominators, rank_exact,
+    rank_exact_with_proof, rank_multi_modular, rational_reconstruction,
 };
 pub use dense::{kernel_dense_naive, rank_dense_naive, rref_dense};
 pub use field::{Field, LARGE_PRIMES, PrimeField, RationalField, ShoupScalar, is_prime_u64};

@@ -323,8 +323,9 @@ fn sections_check(
             .ok_or_else(|| BundleError::Overflow("a dual line bundle".into()))?;
         let h0 = cache.get(k)?[0];
         let h0_dual = cache.get(&dual)?[0];
-        h0_v = h0_v.saturating_add(h0);
-        h0_v_dual = h0_v_dual.saturating_add(h0_dual);
+        let overflow = || BundleError::Overflow("h^0 of the bundle sum".into());
+        h0_v = h0_v.checked_add(h0).ok_or_else(overflow)?;
+        h0_v_dual = h0_v_dual.checked_add(h0_dual).ok_or_else(overflow)?;
         per_bundle.push(SectionEntry {
             bundle: i + 1,
             h0,

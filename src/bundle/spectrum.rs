@@ -252,11 +252,12 @@ pub fn spectrum_with_options(
     })
 }
 
-fn sum_role(multiplets: &[Multiplet], role: Role) -> u64 {
+fn sum_role(multiplets: &[Multiplet], role: Role) -> Result<u64, BundleError> {
     multiplets
         .iter()
         .filter(|m| m.role == role)
-        .fold(0u64, |acc, m| acc.saturating_add(m.count))
+        .try_fold(0u64, |acc, m| acc.checked_add(m.count))
+        .ok_or_else(|| BundleError::Overflow("a multiplet count".into()))
 }
 
 fn signed(x: u64) -> Result<i64, BundleError> {
@@ -333,8 +334,8 @@ fn flags(
     index: i64,
     index_mismatches: Vec<Vec<i64>>,
 ) -> Result<SpectrumFlags, BundleError> {
-    let family_count = sum_role(multiplets, Role::Family);
-    let anti_family_count = sum_role(multiplets, Role::AntiFamily);
+    let family_count = sum_role(multiplets, Role::Family)?;
+    let anti_family_count = sum_role(multiplets, Role::AntiFamily)?;
     let net_families = signed(family_count)? - signed(anti_family_count)?;
     let net_families_expected = index
         .checked_neg()
@@ -352,9 +353,9 @@ fn flags(
         })
         .cloned()
         .collect();
-    let partner = sum_role(multiplets, Role::FamilyPartner);
-    let anti_partner = sum_role(multiplets, Role::AntiFamilyPartner);
-    let self_conj = sum_role(multiplets, Role::SelfConjugateMatter);
+    let partner = sum_role(multiplets, Role::FamilyPartner)?;
+    let anti_partner = sum_role(multiplets, Role::AntiFamilyPartner)?;
+    let self_conj = sum_role(multiplets, Role::SelfConjugateMatter)?;
     let higgs_candidates_present = (partner > 0 && anti_partner > 0) || self_conj > 0;
 
     let has_partners = multiplets.iter().any(|m| m.role == Role::FamilyPartner);

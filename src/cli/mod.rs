@@ -180,7 +180,7 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
         Command::Geometry { config, json } => {
             let inputs = Inputs::from_args(&config)?;
             let geometry = Geometry::new(inputs.config());
-            let summary = geometry.summary();
+            let summary = geometry.summary()?;
             if json {
                 Ok(render::json_line(&summary)?)
             } else {

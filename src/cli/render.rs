@@ -129,23 +129,32 @@ pub fn cohomology_single(
     let _ = writeln!(
         out,
         "  method      {} ({} polynomials{})",
-        r.method.kind,
-        r.method.polynomials,
+        r.method.kind(),
+        r.method.polynomials_str(),
         r.method
-            .seed
+            .seed()
             .map(|s| format!(", seed {s}"))
             .unwrap_or_default()
     );
-    if let Some(f) = &r.method.field {
-        let primes = if r.method.primes.is_empty() {
+    if let Some(f) = r.method.field() {
+        let primes = r.method.primes();
+        let primes = if primes.is_empty() {
             String::new()
         } else {
-            format!(", p = {}", join(&r.method.primes, ", "))
+            format!(", p = {}", join(&primes, ", "))
         };
         let _ = writeln!(out, "  field       {f}{primes}");
     }
-    let _ = writeln!(out, "  certified   {}", r.method.certification);
-    if r.method.higher_differentials {
+    let _ = writeln!(out, "  proven      {}", r.method.certification());
+    let per_degree: Vec<String> = r
+        .method
+        .degrees()
+        .iter()
+        .enumerate()
+        .map(|(q, d)| format!("h^{q}: {}", d.describe()))
+        .collect();
+    let _ = writeln!(out, "  provenance  {}", per_degree.join("; "));
+    if r.method.higher_differentials() {
         let _ = writeln!(
             out,
             "  note        higher differentials d_r (r >= 2) were computed"
@@ -224,7 +233,7 @@ pub fn cohomology_row(r: &sheafwright::cohomology::LineBundleCohomology) -> Stri
         join(&r.bundle, ","),
         join(&r.h, " "),
         r.index,
-        r.method.kind
+        r.method.kind()
     )
 }
 
@@ -238,6 +247,7 @@ pub fn spectrum_json(
     v["model"] = inputs.name().into();
     v["configuration"] = a.geometry.configuration.clone().into();
     v["slope_zero"] = serde_json::to_value(&a.slope_zero)?;
+    v["slope_zero_scope"] = a.slope_zero_scope.clone().into();
     v["favourability"] = serde_json::to_value(&a.favourability)?;
     v["line_bundles"] = serde_json::to_value(&a.line_bundles)?;
     // The GUT multiplet table assumes an S(U(n)) bundle; with c1(V) != 0 `multiplets` and `flags` do not apply.

@@ -12,8 +12,8 @@ use num_rational::BigRational;
 use num_traits::{Signed, ToPrimitive};
 use sheafwright::analysis::{self, Favourability, HodgeNumbers, KahlerPointCheck, ModelAnalysis};
 use sheafwright::bundle::Exact;
-use sheafwright::couplings::CouplingReport;
 use sheafwright::bundle::branching::GaugeGroup;
+use sheafwright::couplings::CouplingReport;
 use sheafwright::geometry::{Geometry, GeometrySummary};
 use sheafwright::slope::{ExistsCertificate, NoneCertificate, Sign, SlopeZero};
 use std::fmt::Write;
@@ -39,7 +39,7 @@ impl<'a> ReportData<'a> {
     /// Run every analysis the model file asks for.
     pub fn compute(inputs: &'a Inputs) -> Result<ReportData<'a>, UserError> {
         let engine = args::PolyArgs::default().engine(inputs)?;
-        let geometry = Geometry::new(inputs.config()).summary();
+        let geometry = Geometry::new(inputs.config()).summary()?;
         let favourability = analysis::favourability(&engine)?;
         let hodge = analysis::hodge_numbers(&geometry, &favourability);
         let analysis = match inputs.model().and_then(|m| m.line_bundles()) {
@@ -252,7 +252,7 @@ fn bundle_section(a: &ModelAnalysis, out: &mut String) {
             i + 1,
             format!("O_X({})", join(&lb.bundle, ",")),
             join(&lb.h, " "),
-            lb.method.kind
+            lb.method.kind()
         );
     }
 }
@@ -328,6 +328,7 @@ fn slope_section(a: &ModelAnalysis, out: &mut String) {
     for line in slope_certificate_lines(z, a.line_bundles.len()) {
         let _ = writeln!(out, "    {line}");
     }
+    let _ = writeln!(out, "  scope                {}", a.slope_zero_scope);
 }
 
 /// The slope-zero certificate in words, with decimals for display (exact data: `slope_zero` in `--json`).

@@ -116,6 +116,16 @@ impl E1Page {
         })
     }
 
+    /// True when some differential `d_r` (`r ≥ 1`) can map a degree-`m` group to a degree-`m+1` group: the
+    /// target's Koszul set must be a proper subset of the source's (`t` removes one equation, the contraction
+    /// keeps it). Otherwise the matrix of `D_m` is structurally zero, for every choice of polynomials.
+    pub fn map_can_act(&self, m: i64) -> bool {
+        self.groups_of_degree(m).any(|g| {
+            self.groups_of_degree(m + 1)
+                .any(|h| h.p < g.p && h.koszul & !g.koszul == 0)
+        })
+    }
+
     /// The group holding coordinate `idx` of degree `m`, and the local index inside it.
     /// Precondition: `idx < dim E_1^m` (panics otherwise).
     pub fn locate(&self, m: i64, idx: usize) -> (&E1Group, usize) {

@@ -12,11 +12,13 @@
 
 pub mod bott;
 pub mod complex;
+pub mod method;
 
 use crate::arith::{self, Field, LARGE_PRIMES, PrimeField, RationalField, SparseVec};
 use crate::geometry::Configuration;
 use crate::poly::{Polynomial, VariableLayout};
 use complex::{Cochain, Complex, E1Page, FieldPolys, koszul_degree};
+pub use method::{DegreeProvenance, MapRank, Method, Polynomials, RankProof};
 use num_rational::BigRational;
 use num_traits::One;
 use serde::Serialize;
@@ -55,8 +57,29 @@ pub enum CohomologyError {
         "the given polynomials do not cut out a complete intersection: hypercohomology in degree {degree} for bundle {bundle:?} (a degenerate or repeated equation)"
     )]
     NotCompleteIntersection { bundle: Vec<i64>, degree: i64 },
+    #[error(
+        "equation {equation}: the given polynomial is in {got} variables, the ambient space has {expected}"
+    )]
+    PolynomialVariables {
+        equation: usize,
+        got: usize,
+        expected: usize,
+    },
+    #[error("equation {equation}: {source}")]
+    BadPolynomial {
+        equation: usize,
+        source: crate::poly::PolyError,
+    },
     #[error("the given polynomial coefficients are not defined modulo {0}")]
     BadPrime(u64),
+    #[error(
+        "internal error: ranks give h^{degree} = {value} < 0 for bundle {bundle:?} (the differential does not square to zero)"
+    )]
+    NegativeDimension {
+        bundle: Vec<i64>,
+        degree: i64,
+        value: i64,
+    },
 }
 
 /// Which defining polynomials the engine uses.
@@ -66,25 +89,6 @@ pub enum PolynomialChoice {
     Generic { seed: u64 },
     /// The user's polynomials, one per equation, exactly.
     Given(Vec<Polynomial>),
-}
-
-/// How a result was obtained (the `method` JSON object).
-#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
-pub struct Method {
-    /// `"dimensions"` (no map needed: every differential has a zero source or target) or `"ranks"`.
-    pub kind: String,
-    /// `"generic"` or `"given"`.
-    pub polynomials: String,
-    /// The seed of the generic coefficients (generic mode).
-    pub seed: Option<u64>,
-    /// Field(s) used for ranks, e.g. `"Q (exact)"` or `"F_p"`.
-    pub field: Option<String>,
-    /// Primes used (generic mode with ranks).
-    pub primes: Vec<u64>,
-    /// How the answer is certified.
-    pub certification: String,
-    /// Whether a higher differential `d_r`, `r ≥ 2`, had a non-zero source and target (so it was computed).
-    pub higher_differentials: bool,
 }
 
 /// One non-zero `E_1` group in a result (`H^q(A, ∧^p N^* ⊗ O(k))` summand).
@@ -158,6 +162,38 @@ pub fn estimate_e1_size(config: &Configuration, k: &[i64]) -> u128 {
         })
         .map(|(_, d)| d)
         .fold(0u128, |a, b| a.saturating_add(b))
+}
+
+/// `h^q = dim E_1^q − rank D_q − rank D_{q−1}` for `q = 0..=dim X`; an error when a value is negative (an
+/// impossible state: the ranks are wrong) or when hypercohomology outside `0..=dim X` is non-zero (the
+/// polynomials do not cut out a complete intersection).
+fn cohomology_from_ranks(
+    k: &[i64],
+    page: &E1Page,
+    degrees: &[i64],
+    dim_x: i64,
+    rank: impl Fn(i64) -> i64,
+) -> Result<Vec<u64>, CohomologyError> {
+    let mut h = vec![0u64; dim_x as usize + 1];
+    for &m in degrees {
+        let v = page.dim(m) as i64 - rank(m) - rank(m - 1);
+        if v < 0 {
+            return Err(CohomologyError::NegativeDimension {
+                bundle: k.to_vec(),
+                degree: m,
+                value: v,
+            });
+        }
+        if (0..=dim_x).contains(&m) {
+            h[m as usize] = v as u64;
+        } else if v != 0 {
+            return Err(CohomologyError::NotCompleteIntersection {
+                bundle: k.to_vec(),
+                degree: m,
+            });
+        }
+    }
+    Ok(h)
 }
 
 /// Line-bundle cohomology for one configuration and polynomial choice, memoised by bundle.
@@ -235,8 +271,10 @@ pub fn class_basis(cx: &Complex<'_, RationalField>, q: i64) -> Vec<BasisClass> {
 }
 
 impl CohomologyEngine {
-    /// An engine for `config` with the given polynomial choice. Given polynomials must be one per equation and
-    /// already checked against the declared multidegrees (the model loader does this).
+    /// An engine for `config` with the given polynomial choice. Given polynomials must be one per equation, in
+    /// the configuration's variables, each a non-zero polynomial whose every term has its equation's
+    /// multidegree (and not divisible by a variable); otherwise a [`CohomologyError`] names the equation and
+    /// the offending monomial.
     pub fn new(config: &Configuration, choice: PolynomialChoice) -> Result<Self, CohomologyError> {
         let layout = VariableLayout::new(config.dims());
         let polys = match &choice {
@@ -259,6 +297,22 @@ impl CohomologyEngine {
                         count: p.len(),
                         expected: config.codimension(),
                     });
+                }
+                // A term of the wrong multidegree would silently fall outside every Bott basis.
+                for (j, (poly, q)) in p.iter().zip(config.equations()).enumerate() {
+                    if poly.nvars() != layout.nvars() {
+                        return Err(CohomologyError::PolynomialVariables {
+                            equation: j + 1,
+                            got: poly.nvars(),
+                            expected: layout.nvars(),
+                        });
+                    }
+                    poly.check_equation(&layout, q).map_err(|source| {
+                        CohomologyError::BadPolynomial {
+                            equation: j + 1,
+                            source,
+                        }
+                    })?;
                 }
                 p.clone()
             }
@@ -330,7 +384,7 @@ impl CohomologyEngine {
     /// let r = engine.cohomology(&[-2, 2, 2, 2]).unwrap();
     /// assert_eq!(r.h, vec![0, 24, 0, 0]);
     /// assert_eq!(r.index, -24);
-    /// assert_eq!(r.method.kind, "ranks");
+    /// assert_eq!(r.method.kind(), "ranks");
     /// ```
     pub fn cohomology(&self, k: &[i64]) -> Result<Arc<LineBundleCohomology>, CohomologyError> {
         if let Some(hit) = self.cache.lock().ok().and_then(|c| c.get(k).cloned()) {
@@ -366,28 +420,15 @@ impl CohomologyEngine {
         let needs_map: Vec<i64> = degrees
             .iter()
             .copied()
-            .filter(|&m| page.dim(m) > 0 && page.dim(m + 1) > 0)
+            .filter(|&m| page.map_can_act(m))
             .collect();
         let polynomials = match self.choice {
-            PolynomialChoice::Generic { .. } => "generic",
-            PolynomialChoice::Given(_) => "given",
+            PolynomialChoice::Generic { seed } => Polynomials::Generic { seed },
+            PolynomialChoice::Given(_) => Polynomials::Given,
         };
-        let seed = match self.choice {
-            PolynomialChoice::Generic { seed } => Some(seed),
-            PolynomialChoice::Given(_) => None,
-        };
-        let mut ranks: HashMap<i64, usize> = HashMap::new();
         let higher = page.groups.iter().any(|g| page.needs_higher(g));
-        let method = if needs_map.is_empty() {
-            Method {
-                kind: "dimensions".into(),
-                polynomials: polynomials.into(),
-                seed,
-                field: None,
-                primes: vec![],
-                certification: "determined by the dimensions of the E_1 page: every differential has a zero source or target".into(),
-                higher_differentials: false,
-            }
+        let maps = if needs_map.is_empty() {
+            Vec::new()
         } else {
             match &self.choice {
                 PolynomialChoice::Given(_) => {
@@ -399,81 +440,45 @@ impl CohomologyEngine {
                         page: &page,
                         polys: &polys,
                     };
-                    for &m in &needs_map {
-                        ranks.insert(m, arith::rank_exact(&cx.differential_matrix(m)));
-                    }
-                    Method {
-                        kind: "ranks".into(),
-                        polynomials: polynomials.into(),
-                        seed,
-                        field: Some(field.describe()),
-                        primes: vec![],
-                        certification: "exact: ranks computed over Q with the given polynomials"
-                            .into(),
-                        higher_differentials: higher,
-                    }
+                    needs_map
+                        .iter()
+                        .map(|&m| {
+                            let (rank, proof) =
+                                arith::rank_exact_with_proof(&cx.differential_matrix(m));
+                            MapRank {
+                                degree: m,
+                                rows: page.dim(m + 1),
+                                cols: page.dim(m),
+                                rank,
+                                proof: RankProof::Exact(proof),
+                            }
+                        })
+                        .collect()
                 }
-                PolynomialChoice::Generic { .. } => {
-                    let mut used = Vec::new();
-                    let mut per_prime: Vec<HashMap<i64, usize>> = Vec::new();
-                    for (field, reduced) in &self.modular_polys {
-                        let Some(polys) = reduced else {
-                            continue;
-                        };
-                        let p = field.modulus();
-                        let cx = Complex {
-                            field,
-                            layout: &self.layout,
-                            page: &page,
-                            polys,
-                        };
-                        let r: HashMap<i64, usize> = needs_map
-                            .iter()
-                            .map(|&m| (m, arith::rank(field, &cx.differential_matrix(m))))
-                            .collect();
-                        used.push(p);
-                        per_prime.push(r);
-                        if per_prime.len() >= 2
-                            && per_prime[per_prime.len() - 1] == per_prime[per_prime.len() - 2]
-                        {
-                            break;
-                        }
-                    }
-                    // rank mod p ≤ rank over Q for every p: take the maximum.
-                    for &m in &needs_map {
-                        ranks.insert(m, per_prime.iter().map(|r| r[&m]).max().unwrap_or(0));
-                    }
-                    let agreed = per_prime.len() >= 2
-                        && per_prime[per_prime.len() - 1] == per_prime[per_prime.len() - 2];
-                    Method {
-                        kind: "ranks".into(),
-                        polynomials: polynomials.into(),
-                        seed,
-                        field: Some("F_p".into()),
-                        primes: used,
-                        certification: if agreed {
-                            "generic: ranks agree over the last two primes for integer coefficients drawn from the seed; this is the cohomology of that member with high probability, and an upper bound attained by a generic member".into()
-                        } else {
-                            "generic: the primes disagreed; the largest rank found is used (an upper bound on the cohomology of a generic member)".into()
-                        },
-                        higher_differentials: higher,
-                    }
-                }
+                PolynomialChoice::Generic { .. } => self.generic_ranks(k, &page, &needs_map)?,
             }
         };
-        let rank = |m: i64| ranks.get(&m).copied().unwrap_or(0) as i64;
-        let mut h = vec![0u64; dim_x as usize + 1];
-        for &m in &degrees {
-            let v = page.dim(m) as i64 - rank(m) - rank(m - 1);
-            if (0..=dim_x).contains(&m) {
-                h[m as usize] = v.max(0) as u64;
-            } else if v != 0 {
-                return Err(CohomologyError::NotCompleteIntersection {
-                    bundle: k.to_vec(),
-                    degree: m,
-                });
+        let rank = |m: i64| {
+            maps.iter()
+                .find(|r| r.degree == m)
+                .map_or(0, |r| r.rank as i64)
+        };
+        let h = cohomology_from_ranks(k, &page, &degrees, dim_x, rank)?;
+        let needs = |m: i64| needs_map.contains(&m);
+        let degree_prov = method::degree_provenance(polynomials, &h, needs);
+        let method = if maps.is_empty() {
+            Method::Dimensions {
+                polynomials,
+                degrees: degree_prov,
             }
-        }
+        } else {
+            Method::Ranks {
+                polynomials,
+                maps,
+                higher_differentials: higher,
+                degrees: degree_prov,
+            }
+        };
         let index = h
             .iter()
             .enumerate()
@@ -486,6 +491,74 @@ impl CohomologyEngine {
             method,
             e1,
         })
+    }
+
+    /// Ranks of the maps `needs_map` for the integer member drawn from the seed, each proven over Q (see
+    /// [`method`]): all maps are ranked modulo one large prime (lower bounds over Q); a map next to a group that
+    /// vanishes mod p has its rank forced, and every other map is ranked exactly over Q. No comparison between
+    /// primes is involved, so no disagreement can be hidden.
+    fn generic_ranks(
+        &self,
+        k: &[i64],
+        page: &E1Page,
+        needs_map: &[i64],
+    ) -> Result<Vec<MapRank>, CohomologyError> {
+        let (field, polys) = self
+            .modular_polys
+            .iter()
+            .find_map(|(f, r)| r.as_ref().map(|r| (f, r)))
+            .ok_or(CohomologyError::BadPrime(LARGE_PRIMES[0]))?;
+        let prime = field.modulus();
+        let cx = Complex {
+            field,
+            layout: &self.layout,
+            page,
+            polys,
+        };
+        let modular: Vec<(i64, usize)> = needs_map
+            .iter()
+            .map(|&m| (m, arith::rank(field, &cx.differential_matrix(m))))
+            .collect();
+        let rank_p = |m: i64| modular.iter().find(|e| e.0 == m).map_or(0, |e| e.1 as i64);
+        // h mod p in every degree (the reduction of D also squares to zero, so these are dimensions).
+        let h_p = |m: i64| page.dim(m) as i64 - rank_p(m) - rank_p(m - 1);
+        let mut exact_cx: Option<(RationalField, FieldPolys<BigRational>)> = None;
+        let mut out = Vec::with_capacity(needs_map.len());
+        for &(m, r) in &modular {
+            let (hm, hm1) = (h_p(m), h_p(m + 1));
+            if hm < 0 || hm1 < 0 {
+                return Err(CohomologyError::NegativeDimension {
+                    bundle: k.to_vec(),
+                    degree: if hm < 0 { m } else { m + 1 },
+                    value: hm.min(hm1),
+                });
+            }
+            let (rank, proof) = if hm == 0 || hm1 == 0 {
+                (r, RankProof::ForcedByVanishing { prime })
+            } else {
+                let (qf, qpolys) = exact_cx.get_or_insert_with(|| {
+                    let f = RationalField;
+                    let p = to_field_polys(&f, &self.polys).expect("rationals");
+                    (f, p)
+                });
+                let qcx = Complex {
+                    field: &*qf,
+                    layout: &self.layout,
+                    page,
+                    polys: &*qpolys,
+                };
+                let (rank, proof) = arith::rank_exact_with_proof(&qcx.differential_matrix(m));
+                (rank, RankProof::Exact(proof))
+            };
+            out.push(MapRank {
+                degree: m,
+                rows: page.dim(m + 1),
+                cols: page.dim(m),
+                rank,
+                proof,
+            });
+        }
+        Ok(out)
     }
 
     /// A basis of `H^q(X, O_X(k))` for every `q`, each class with its type, its `E_1` cocycle and its lifted
@@ -581,5 +654,51 @@ impl CohomologyEngine {
             })
             .collect();
         (terms, truncated)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Issue 11: a given polynomial with a term of the wrong multidegree is refused, naming the equation and
+    /// the monomial (it used to drop the term silently).
+    #[test]
+    fn regression_issue_11_given_polynomial_degree_is_checked() {
+        let c = Configuration::new(&[1, 4], &[vec![1, 1], vec![1, 4]]).unwrap();
+        let layout = VariableLayout::new(c.dims());
+        let good0 = Polynomial::parse("x1_0*x2_0 + x1_1*x2_1", &layout).unwrap();
+        let bad1 = Polynomial::parse("x1_0*x2_0^4 + x1_1*x2_1^3", &layout).unwrap();
+        let e = CohomologyEngine::new(&c, PolynomialChoice::Given(vec![good0, bad1])).err();
+        let Some(err) = e else {
+            panic!("a wrong multidegree must be refused")
+        };
+        let text = err.to_string();
+        assert!(
+            matches!(err, CohomologyError::BadPolynomial { equation: 2, .. }),
+            "{text}"
+        );
+        assert!(text.starts_with("equation 2"), "{text}");
+        assert!(text.contains("x1_1*x2_1^3"), "{text}");
+    }
+
+    /// Issue 11: ranks that would give a negative dimension are an error, not a clamp to 0.
+    #[test]
+    fn regression_issue_11_negative_dimension_is_an_error() {
+        let tetra = Configuration::new(&[1, 1, 1, 1], &[vec![2, 2, 2, 2]]).unwrap();
+        let layout = VariableLayout::new(tetra.dims());
+        let k = [-2, 2, 2, 2];
+        let page = E1Page::new(&layout, tetra.equations(), &k);
+        let degrees: Vec<i64> = (-1..=4).collect();
+        // dim E_1^0 = 3 (S = {1}, q = 1 gives degree 0), dim E_1^1 = 27; a claimed rank of 5 for D_0 is
+        // impossible and used to be clamped.
+        assert_eq!(page.dim(0), 3);
+        let r = cohomology_from_ranks(&k, &page, &degrees, 3, |m| if m == 0 { 5 } else { 0 });
+        assert!(
+            matches!(r, Err(CohomologyError::NegativeDimension { .. })),
+            "{r:?}"
+        );
+        let ok = cohomology_from_ranks(&k, &page, &degrees, 3, |m| if m == 0 { 3 } else { 0 });
+        assert_eq!(ok.unwrap(), vec![0, 24, 0, 0]);
     }
 }

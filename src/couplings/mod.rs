@@ -7,8 +7,8 @@
 //! Invariant: every value of one [`value::CouplingEngine`] is computed with the same polynomials and the same
 //! normalisation of `H^3(X, O_X)` (one common normalisation of Ω), stated by [`value::NORMALISATION`].
 
-pub mod parametric;
 pub mod operators;
+pub mod parametric;
 pub mod texture;
 pub mod value;
 

@@ -59,6 +59,8 @@ pub enum TextureError {
     Bundle(#[from] BundleError),
     #[error("couplings need a Calabi-Yau threefold; this configuration has dimension {0}")]
     NotThreefold(usize),
+    #[error(transparent)]
+    Geometry(#[from] crate::geometry::GeometryError),
     #[error("--singlets {0} is too large (limit {MAX_SINGLET_INSERTIONS})")]
     TooManySinglets(usize),
     #[error(
@@ -305,9 +307,10 @@ pub fn model_spectrum(
     if config.dimension() != 3 {
         return Err(TextureError::NotThreefold(config.dimension()));
     }
-    let summary = Geometry::new(config).summary();
-    let triple = summary.triple.expect("threefold");
-    let c2 = summary.c2.expect("threefold");
+    let summary = Geometry::new(config).summary()?;
+    let (Some(triple), Some(c2)) = (summary.triple, summary.c2) else {
+        return Err(TextureError::NotThreefold(config.dimension()));
+    };
     let callback = |k: &[i64]| -> Result<Vec<u64>, String> {
         engine
             .cohomology(k)

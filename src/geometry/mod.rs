@@ -23,8 +23,10 @@ use thiserror::Error;
 pub const MAX_FACTORS: usize = 16;
 /// Largest projective dimension of one factor.
 pub const MAX_FACTOR_DIM: usize = 32;
-/// Largest number of equations.
-pub const MAX_EQUATIONS: usize = 32;
+/// Largest number of equations. The `E_1` page enumerates all `2^K` Koszul index sets (held as `u32` bitmasks),
+/// so `K` is bounded well below 32: `2^16` subsets are enumerated in milliseconds.
+pub const MAX_EQUATIONS: usize = 16;
+const _: () = assert!(MAX_EQUATIONS < 32, "Koszul index sets are u32 bitmasks");
 /// Largest Chow-ring size `∏ (n_i + 1)` accepted (the dense representation must fit comfortably).
 pub const MAX_CHOW_SIZE: usize = 1 << 14;
 
@@ -68,7 +70,7 @@ pub enum ConfigError {
     NotCalabiYau {
         factor: usize,
         n: usize,
-        sum: i64,
+        sum: DegreeSum,
         needed: usize,
     },
     #[error("configuration too large: {what} is {value}, the limit is {limit}")]
@@ -77,6 +79,37 @@ pub enum ConfigError {
         value: usize,
         limit: usize,
     },
+}
+
+/// The degree sum reported by [`ConfigError::NotCalabiYau`]: exact, or a lower bound when one degree alone is
+/// already too large (the sum is then not formed, so it cannot overflow).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum DegreeSum {
+    Exactly(i64),
+    AtLeast(i64),
+}
+
+impl std::fmt::Display for DegreeSum {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self {
+            DegreeSum::Exactly(s) => write!(f, "{s}"),
+            DegreeSum::AtLeast(s) => write!(f, "at least {s}"),
+        }
+    }
+}
+
+/// Why a geometry figure could not be reported exactly.
+#[derive(Debug, Error, Clone, PartialEq, Eq)]
+#[non_exhaustive]
+pub enum GeometryError {
+    #[error("{what} is {value}, which does not fit a 64-bit integer")]
+    Overflow { what: &'static str, value: BigInt },
+    #[error("internal error: the HRR index of O_X is {0}, not an integer")]
+    NonIntegralIndex(BigRational),
+}
+
+fn to_i64_checked(what: &'static str, v: BigInt) -> Result<i64, GeometryError> {
+    v.to_i64().ok_or(GeometryError::Overflow { what, value: v })
 }
 
 /// A validated Calabi-Yau complete intersection configuration (see the module docs for the invariant).
@@ -150,7 +183,7 @@ impl Configuration {
             });
         }
         let m = dims.len();
-        let mut eqs = Vec::with_capacity(equations.len());
+        let mut eqs: Vec<Vec<u32>> = Vec::with_capacity(equations.len());
         for (j, q) in equations.iter().enumerate() {
             if q.len() != m {
                 return Err(ConfigError::LengthMismatch {
@@ -171,7 +204,19 @@ impl Configuration {
             if q.iter().all(|&d| d == 0) {
                 return Err(ConfigError::ZeroEquation { equation: j + 1 });
             }
-            eqs.push(q.iter().map(|&d| d.min(u32::MAX as i64) as u32).collect());
+            // The Calabi-Yau condition (degrees ≥ 0 summing to n_i + 1 in each factor) bounds every degree by
+            // n_i + 1 ≤ MAX_FACTOR_DIM + 1; refusing larger ones first keeps every later sum small and exact.
+            for (i, (&d, &n)) in q.iter().zip(&dims).enumerate() {
+                if d > n as i64 + 1 {
+                    return Err(ConfigError::NotCalabiYau {
+                        factor: i + 1,
+                        n,
+                        sum: DegreeSum::AtLeast(d),
+                        needed: n + 1,
+                    });
+                }
+            }
+            eqs.push(q.iter().map(|&d| d as u32).collect());
         }
         let ambient: usize = dims.iter().sum();
         let dim = ambient as i64 - equations.len() as i64;
@@ -183,12 +228,13 @@ impl Configuration {
             });
         }
         for (i, &n) in dims.iter().enumerate() {
-            let sum: i64 = equations.iter().map(|q| q[i]).sum();
+            // Each term is in 0..=n+1 (checked above) and there are at most MAX_EQUATIONS: no overflow.
+            let sum: i64 = eqs.iter().map(|q| q[i] as i64).sum();
             if sum != n as i64 + 1 {
                 return Err(ConfigError::NotCalabiYau {
                     factor: i + 1,
                     n,
-                    sum,
+                    sum: DegreeSum::Exactly(sum),
                     needed: n + 1,
                 });
             }
@@ -368,6 +414,10 @@ impl Geometry {
     }
 
     /// `d_{r s t} = ∫_X J_r J_s J_t` for a threefold (dense `m×m×m`), `None` when `dim X ≠ 3`.
+    ///
+    /// Never overflows: `d_{rst}` is a coefficient of `∏_j (Σ_i q_{ji} J_i)`, hence at most `∏_j (Σ_i q_{ji})`,
+    /// and the Calabi-Yau condition makes the row sums add up to `Σ_i (n_i + 1) = 3 + K + m ≤ 35`, so the
+    /// product is below `e^{35/e} < 4·10^5`. The `expect` guards that invariant.
     pub fn triple_intersections(&self) -> Option<Vec<Vec<Vec<i64>>>> {
         if self.config.dimension() != 3 {
             return None;
@@ -381,7 +431,10 @@ impl Geometry {
                     a[r] += 1;
                     a[s] += 1;
                     a[t] += 1;
-                    out[r][s][t] = self.intersection(&a).to_i64().unwrap_or(i64::MAX);
+                    out[r][s][t] = self
+                        .intersection(&a)
+                        .to_i64()
+                        .expect("threefold intersection numbers are small (see the doc)");
                 }
             }
         }
@@ -404,6 +457,10 @@ impl Geometry {
     }
 
     /// `c2(TX) · J_r = ∫_X c2 J_r` for each factor r, for a threefold; `None` otherwise.
+    ///
+    /// Never overflows: `c2(TX)` is a polynomial in the `J_i` whose coefficients are bounded by `(3 + K + m)^2`
+    /// times binomials of at most 35, and its products with `μ` stay far below `2^63` for the accepted sizes
+    /// (at most 16 equations and factors); the `expect` guards that invariant.
     pub fn c2_dot_j(&self) -> Option<Vec<i64>> {
         if self.config.dimension() != 3 {
             return None;
@@ -418,7 +475,7 @@ impl Geometry {
                     self.integrate_on_x(&c)
                         .to_integer()
                         .to_i64()
-                        .unwrap_or(i64::MAX)
+                        .expect("c2·J on a threefold is small (see the doc)")
                 })
                 .collect(),
         )
@@ -531,6 +588,60 @@ mod tests {
         ));
     }
 
+    /// Issue 11: degrees whose sum wraps around in i64 used to pass the Calabi-Yau check (and were then
+    /// clamped to u32::MAX); i64::MAX + i64::MAX + 7 wraps to 5 = n + 1 on P^4.
+    #[test]
+    fn regression_issue_11_wrapping_degree_sum_is_refused() {
+        let r = Configuration::new(&[4], &[vec![i64::MAX], vec![i64::MAX], vec![7]]);
+        assert!(
+            matches!(
+                r,
+                Err(ConfigError::NotCalabiYau {
+                    sum: DegreeSum::AtLeast(i64::MAX),
+                    ..
+                })
+            ),
+            "{r:?}"
+        );
+    }
+
+    /// Issue 11: the equation limit is what the u32 Koszul bitmasks and the 2^K enumeration can do; the limit
+    /// itself is accepted and computes, one more is refused (the old limit, 32, wrapped `1u32 << 32`).
+    #[test]
+    fn regression_issue_11_equation_limit_is_computable() {
+        // P^17 cut by 14 linear and 2 quadric equations: an elliptic curve (16 equations, the limit).
+        let mut eqs = vec![vec![1i64]; MAX_EQUATIONS - 2];
+        eqs.extend([vec![2], vec![2]]);
+        let curve = Configuration::new(&[17], &eqs).unwrap();
+        assert_eq!(curve.codimension(), MAX_EQUATIONS);
+        let e = crate::cohomology::CohomologyEngine::new(
+            &curve,
+            crate::cohomology::PolynomialChoice::Generic { seed: 3 },
+        )
+        .unwrap();
+        // O_E: h^0 = h^1 = 1 on an elliptic curve (common practice).
+        assert_eq!(e.cohomology(&[0]).unwrap().h, vec![1, 1]);
+        let mut more = vec![vec![1i64]; MAX_EQUATIONS - 1];
+        more.extend([vec![2], vec![2]]);
+        assert!(matches!(
+            Configuration::new(&[18], &more),
+            Err(ConfigError::TooLarge { .. })
+        ));
+    }
+
+    /// Issue 11: figures beyond i64 are an error, not an `i64::MAX` sentinel. A degree-33 hypersurface in P^32
+    /// has an Euler number of about 33^31.
+    #[test]
+    fn regression_issue_11_summary_overflow_is_an_error() {
+        let c = Configuration::new(&[32], &[vec![33]]).unwrap();
+        let g = Geometry::new(&c);
+        assert!(g.euler().to_i64().is_none());
+        assert!(matches!(g.summary(), Err(GeometryError::Overflow { .. })));
+        // A small case still reports exactly.
+        let q = Geometry::new(&Configuration::new(&[4], &[vec![5]]).unwrap());
+        assert_eq!(q.summary().unwrap().euler, -200);
+    }
+
     #[test]
     fn index_formulas_agree_on_tetraquadric() {
         let c = Configuration::new(&[1, 1, 1, 1], &[vec![2, 2, 2, 2]]).unwrap();
@@ -577,30 +688,35 @@ pub struct GeometrySummary {
 }
 
 impl Geometry {
-    /// Collect the figures into a [`GeometrySummary`].
-    pub fn summary(&self) -> GeometrySummary {
+    /// Collect the figures into a [`GeometrySummary`]; an error when a figure (an Euler number or intersection
+    /// number of a high-dimensional X) does not fit the summary's 64-bit integers.
+    pub fn summary(&self) -> Result<GeometrySummary, GeometryError> {
         let m = self.config.num_factors();
-        GeometrySummary {
+        let intersections = self
+            .top_intersections()
+            .into_iter()
+            .map(|(exponents, v)| {
+                Ok(IntersectionNumber {
+                    exponents,
+                    value: to_i64_checked("an intersection number", v)?,
+                })
+            })
+            .collect::<Result<Vec<_>, GeometryError>>()?;
+        let chi = self.index_hrr(&vec![0; m]);
+        if !chi.is_integer() {
+            return Err(GeometryError::NonIntegralIndex(chi));
+        }
+        Ok(GeometrySummary {
             configuration: self.config.label(),
             ambient: self.config.dims().to_vec(),
             equations: self.config.equations().to_vec(),
             dimension: self.config.dimension(),
             calabi_yau: self.first_chern_class_vanishes(),
-            euler: self.euler().to_i64().unwrap_or(i64::MAX),
+            euler: to_i64_checked("the Euler number", self.euler())?,
             c2: self.c2_dot_j(),
             triple: self.triple_intersections(),
-            intersections: self
-                .top_intersections()
-                .into_iter()
-                .map(|(exponents, v)| IntersectionNumber {
-                    exponents,
-                    value: v.to_i64().unwrap_or(i64::MAX),
-                })
-                .collect(),
-            structure_sheaf_index: self
-                .index(&vec![0; m])
-                .and_then(|v| v.to_i64())
-                .unwrap_or(i64::MAX),
-        }
+            intersections,
+            structure_sheaf_index: to_i64_checked("chi(O_X)", chi.to_integer())?,
+        })
     }
 }

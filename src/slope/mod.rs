@@ -386,14 +386,18 @@ pub fn verify_certificate(
 
 /// Exact slope `μ_k(t) = Σ_{r,s,u} d_{rsu} k^r t^s t^u`.
 ///
-/// Preconditions: `triple` is `m × m × m`, `k` and `t` have length `m`;
-/// returns `0` if the shapes do not match (use [`try_slope_exact`] to get an
-/// error instead). Cost: `O(m^3)` big-rational operations.
-pub fn slope_exact(triple: &[Vec<Vec<i64>>], k: &[i64], t: &[BigRational]) -> BigRational {
-    try_slope_exact(triple, k, t).unwrap_or_else(|_| BigRational::from_integer(BigInt::from(0)))
+/// `triple` must be `m × m × m` and `k`, `t` of length `m`; malformed shapes are a [`SlopeError`] (never a
+/// slope of 0, which would read as "vanishes"). Same as [`try_slope_exact`]. Cost: `O(m^3)` big-rational
+/// operations.
+pub fn slope_exact(
+    triple: &[Vec<Vec<i64>>],
+    k: &[i64],
+    t: &[BigRational],
+) -> Result<BigRational, SlopeError> {
+    try_slope_exact(triple, k, t)
 }
 
-/// Like [`slope_exact`] but reports malformed shapes as a [`SlopeError`].
+/// The exact slope, with malformed shapes reported as a [`SlopeError`].
 /// Check that `triple` is a non-empty `m × m × m` array and return `m`.
 pub(super) fn check_cubic(triple: &[Vec<Vec<i64>>]) -> Result<usize, SlopeError> {
     let m = triple.len();

@@ -106,7 +106,7 @@ fn quintic_cases() {
             sign: Sign::Positive
         })
     );
-    assert_eq!(slope_exact(&d, &[2], &[q(1, 2)]), q(5, 2));
+    assert_eq!(slope_exact(&d, &[2], &[q(1, 2)]).unwrap(), q(5, 2));
 }
 
 #[test]
@@ -147,8 +147,8 @@ fn p1_4_hand_solved_locus() {
     let b = vec![vec![2, -1, -1, 0], vec![-2, 1, 1, 0]];
     let on = [q(7, 5), q(2, 1), q(1, 1), q(1, 1)];
     let off = [q(1, 1), q(2, 1), q(1, 1), q(1, 1)];
-    assert!(slope_exact(&d, &b[0], &on).is_zero());
-    assert!(!slope_exact(&d, &b[0], &off).is_zero());
+    assert!(slope_exact(&d, &b[0], &on).unwrap().is_zero());
+    assert!(!slope_exact(&d, &b[0], &off).unwrap().is_zero());
     let res = run(&d, &b);
     assert_eq!(res.status(), "exists");
     let hand = SlopeZero::Exists(ExistsCertificate::RationalPoint { point: on.to_vec() });
@@ -310,8 +310,16 @@ fn boundary_only_zero_is_never_exists() {
     // need t1t2 = 0, then t2t3 = t1t3 = 0: only the vertices of the closed cone.
     let d = toy_d123();
     let b = vec![vec![1, -1, 1], vec![-1, 1, 1]];
-    assert!(slope_exact(&d, &b[0], &[q(0, 1), q(0, 1), q(1, 1)]).is_zero());
-    assert!(slope_exact(&d, &b[1], &[q(0, 1), q(0, 1), q(1, 1)]).is_zero());
+    assert!(
+        slope_exact(&d, &b[0], &[q(0, 1), q(0, 1), q(1, 1)])
+            .unwrap()
+            .is_zero()
+    );
+    assert!(
+        slope_exact(&d, &b[1], &[q(0, 1), q(0, 1), q(1, 1)])
+            .unwrap()
+            .is_zero()
+    );
     let res = run(&d, &b);
     assert_ne!(res.status(), "exists");
     // A boundary point is rejected as a certificate.
@@ -501,7 +509,8 @@ fn malformed_input_is_an_error() {
         }
     ));
     assert!(try_slope_exact(&d, &[1, 0, 0, 0], &[q(1, 1)]).is_err());
-    assert!(slope_exact(&d, &[1, 0, 0, 0], &[q(1, 1)]).is_zero());
+    // Issue 11: a malformed point is an error, never a slope of 0 ("vanishes").
+    assert!(slope_exact(&d, &[1, 0, 0, 0], &[q(1, 1)]).is_err());
 }
 
 #[test]
