@@ -104,15 +104,60 @@ fn matrix(out: &mut String, c: &CouplingClass, indent: &str) {
 }
 
 /// One symbol per entry (`*` for a non-zero value), rows and columns named once.
-fn compact_grid(out: &mut String, c: &CouplingClass) {
-    let _ = writeln!(out, "    rows:    {}", c.rows.join(" "));
-    let _ = writeln!(out, "    columns: {}", c.columns.join(" "));
-    for r in 0..c.rows.len() {
-        let line: String = (0..c.columns.len())
-            .map(|col| c.entries[r * c.columns.len() + col].status.symbol())
-            .collect();
-        let _ = writeln!(out, "    {line}");
+/// Most textures listed by the report's compact summary; the `couplings` command shows every one.
+const REPORT_TEXTURE_LINES: usize = 24;
+
+/// The report's couplings section: one line per texture with its ranks and the count of each entry status.
+fn compact_summary(out: &mut String, report: &CouplingReport) {
+    let statuses = [
+        EntryStatus::Value,
+        EntryStatus::ZeroComputed,
+        EntryStatus::VanishesByType,
+        EntryStatus::AllowedByCharge,
+        EntryStatus::NotComputed,
+        EntryStatus::ForbiddenByCharge,
+    ];
+    if !report.classes.is_empty() {
+        let _ = writeln!(
+            out,
+            "\n  texture                               ranks; rows x columns: entries per status (count×symbol)"
+        );
     }
+    for c in report.classes.iter().take(REPORT_TEXTURE_LINES) {
+        let counts: Vec<String> = statuses
+            .iter()
+            .map(|s| (s, c.entries.iter().filter(|e| e.status == *s).count()))
+            .filter(|(_, n)| *n > 0)
+            .map(|(s, n)| format!("{n}×{}", s.symbol()))
+            .collect();
+        let name = format!(
+            "[{}]{}",
+            c.operator,
+            c.choice
+                .as_ref()
+                .map(|h| format!(" with {h}"))
+                .unwrap_or_default()
+        );
+        let _ = writeln!(
+            out,
+            "  {name:<37} {}; {}x{}: {}",
+            ranks(c),
+            c.rows.len(),
+            c.columns.len(),
+            counts.join(" ")
+        );
+    }
+    if report.classes.len() > REPORT_TEXTURE_LINES {
+        let _ = writeln!(
+            out,
+            "  … and {} more texture(s)",
+            report.classes.len() - REPORT_TEXTURE_LINES
+        );
+    }
+    let _ = writeln!(
+        out,
+        "  matrices, exact values and relations: sheafwright couplings MODEL.toml (--json for all entries)"
+    );
 }
 
 fn ranks(c: &CouplingClass) -> String {
@@ -176,6 +221,10 @@ pub fn text(report: &CouplingReport, compact: bool) -> String {
     if report.classes.is_empty() {
         let _ = writeln!(out, "\n  no texture with an allowed entry");
     }
+    if compact {
+        compact_summary(&mut out, report);
+        return out;
+    }
     for c in &report.classes {
         let _ = writeln!(
             out,
@@ -187,16 +236,11 @@ pub fn text(report: &CouplingReport, compact: bool) -> String {
                 .unwrap_or_default(),
             ranks(c)
         );
-        if compact {
-            compact_grid(&mut out, c);
-        } else {
+        {
             matrix(&mut out, c, "    ");
         }
         for w in &c.warnings {
             let _ = writeln!(out, "    warning: {w}");
-        }
-        if compact {
-            continue;
         }
         for between in ["rows", "columns"] {
             let zero: Vec<&str> = c
