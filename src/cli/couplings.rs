@@ -31,7 +31,8 @@ pub fn run(a: CouplingsArgs) -> Result<String, UserError> {
         values: true,
     };
     let started = std::time::Instant::now();
-    let report = couplings(&engine, &sum, &options)?;
+    let mut report = couplings(&engine, &sum, &options)?;
+    report.warnings.extend(parameter_warning(&inputs));
     if a.timing {
         for t in &report.timings {
             eprintln!(
@@ -61,6 +62,16 @@ pub fn run(a: CouplingsArgs) -> Result<String, UserError> {
     } else {
         Ok(text(&report, false))
     }
+}
+
+/// With a symbolic parameter in the model, the texture values are those of one member: say which, and where the
+/// exact rational functions come from.
+pub fn parameter_warning(inputs: &Inputs) -> Option<String> {
+    let p = inputs.model()?.parameter()?;
+    Some(format!(
+        "the model names the parameter {}: these values are for the member {} = {} (parameter_value); the library's `couplings::parametric_yukawa_tensor` gives every coupling as an exact rational function of {} (not yet shown by this command)",
+        p.name, p.name, p.value, p.name
+    ))
 }
 
 const LEGEND: &str = "legend: · forbidden_by_charge   * value (non-zero, shown in full by `couplings`)   τ vanishes_by_type (τ1+τ2+τ3 < K)   0 zero_computed   + allowed_by_charge (no holomorphic value)   ? not_computed   numbers: exact values";

@@ -68,6 +68,11 @@ impl<'a> ReportData<'a> {
                     &args::bundle_sum(inputs, None)?,
                     &sheafwright::couplings::CouplingOptions::default(),
                 )
+                .map(|mut c| {
+                    c.warnings
+                        .extend(super::couplings::parameter_warning(inputs));
+                    c
+                })
                 .map_err(|e| e.to_string()),
             ),
             None => None,
