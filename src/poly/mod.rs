@@ -330,6 +330,70 @@ pub fn compositions(total: u32, parts: usize) -> Vec<Vec<u32>> {
     out
 }
 
+/// The character cursor shared by the polynomial parsers of this module and of [`parametric`]: positions in
+/// errors are 1-based character offsets of the input.
+pub(crate) trait CharCursor {
+    /// The input as (byte offset, character) pairs, and the current index into it.
+    fn cursor(&self) -> (&[(usize, char)], usize);
+    /// The current index, for advancing.
+    fn cursor_mut(&mut self) -> &mut usize;
+
+    /// A syntax error at the current position.
+    fn err<T>(&self, message: impl Into<String>) -> Result<T, PolyError> {
+        let (chars, pos) = self.cursor();
+        let position = chars
+            .get(pos)
+            .map(|(i, _)| *i + 1)
+            .unwrap_or_else(|| chars.last().map(|(i, _)| i + 2).unwrap_or(1));
+        Err(PolyError::Syntax {
+            position,
+            message: message.into(),
+        })
+    }
+
+    /// The character at the cursor.
+    fn peek(&self) -> Option<char> {
+        self.cursor().0.get(self.cursor().1).map(|(_, c)| *c)
+    }
+
+    /// A run of decimal digits (at most 200).
+    fn integer(&mut self) -> Result<BigInt, PolyError> {
+        let start = self.cursor().1;
+        while matches!(self.peek(), Some(c) if c.is_ascii_digit()) {
+            *self.cursor_mut() += 1;
+        }
+        if start == self.cursor().1 {
+            return self.err("expected a number");
+        }
+        if self.cursor().1 - start > 200 {
+            return self.err("number too long");
+        }
+        let s: String = self.cursor().0[start..self.cursor().1]
+            .iter()
+            .map(|(_, c)| c)
+            .collect();
+        Ok(s.parse().expect("digits parse"))
+    }
+
+    /// An integer no larger than `limit`; `what` names it in the error.
+    fn small(&mut self, what: &str, limit: u64) -> Result<u64, PolyError> {
+        let v = self.integer()?;
+        match u64::try_from(&v) {
+            Ok(x) if x <= limit => Ok(x),
+            _ => self.err(format!("{what} {v} is too large (limit {limit})")),
+        }
+    }
+}
+
+impl CharCursor for Parser<'_> {
+    fn cursor(&self) -> (&[(usize, char)], usize) {
+        (&self.chars, self.pos)
+    }
+    fn cursor_mut(&mut self) -> &mut usize {
+        &mut self.pos
+    }
+}
+
 struct Parser<'a> {
     chars: Vec<(usize, char)>,
     pos: usize,
@@ -345,45 +409,6 @@ impl<'a> Parser<'a> {
                 .collect(),
             pos: 0,
             layout,
-        }
-    }
-
-    fn err<T>(&self, message: impl Into<String>) -> Result<T, PolyError> {
-        let position = self
-            .chars
-            .get(self.pos)
-            .map(|(i, _)| *i + 1)
-            .unwrap_or_else(|| self.chars.last().map(|(i, _)| i + 2).unwrap_or(1));
-        Err(PolyError::Syntax {
-            position,
-            message: message.into(),
-        })
-    }
-
-    fn peek(&self) -> Option<char> {
-        self.chars.get(self.pos).map(|(_, c)| *c)
-    }
-
-    fn integer(&mut self) -> Result<BigInt, PolyError> {
-        let start = self.pos;
-        while matches!(self.peek(), Some(c) if c.is_ascii_digit()) {
-            self.pos += 1;
-        }
-        if start == self.pos {
-            return self.err("expected a number");
-        }
-        if self.pos - start > 200 {
-            return self.err("number too long");
-        }
-        let s: String = self.chars[start..self.pos].iter().map(|(_, c)| c).collect();
-        Ok(s.parse().expect("digits parse"))
-    }
-
-    fn small(&mut self, what: &str, limit: u64) -> Result<u64, PolyError> {
-        let v = self.integer()?;
-        match u64::try_from(&v) {
-            Ok(x) if x <= limit => Ok(x),
-            _ => self.err(format!("{what} {v} is too large (limit {limit})")),
         }
     }
 

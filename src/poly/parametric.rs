@@ -15,7 +15,7 @@
 //!
 //! Invariant: no stored coefficient polynomial is zero; every exponent vector has length `Σ (n_i + 1)`.
 
-use super::{MAX_EXPONENT, PolyError, Polynomial, VariableLayout};
+use super::{CharCursor, MAX_EXPONENT, PolyError, Polynomial, VariableLayout};
 use crate::arith::UniPoly;
 use num_bigint::BigInt;
 use num_rational::BigRational;
@@ -166,46 +166,16 @@ enum Item {
     Variable(usize, u32),
 }
 
+impl CharCursor for PParser<'_> {
+    fn cursor(&self) -> (&[(usize, char)], usize) {
+        (&self.chars, self.pos)
+    }
+    fn cursor_mut(&mut self) -> &mut usize {
+        &mut self.pos
+    }
+}
+
 impl PParser<'_> {
-    fn err<T>(&self, message: impl Into<String>) -> Result<T, PolyError> {
-        let position = self
-            .chars
-            .get(self.pos)
-            .map(|(i, _)| *i + 1)
-            .unwrap_or_else(|| self.chars.last().map(|(i, _)| i + 2).unwrap_or(1));
-        Err(PolyError::Syntax {
-            position,
-            message: message.into(),
-        })
-    }
-
-    fn peek(&self) -> Option<char> {
-        self.chars.get(self.pos).map(|(_, c)| *c)
-    }
-
-    fn integer(&mut self) -> Result<BigInt, PolyError> {
-        let start = self.pos;
-        while matches!(self.peek(), Some(c) if c.is_ascii_digit()) {
-            self.pos += 1;
-        }
-        if start == self.pos {
-            return self.err("expected a number");
-        }
-        if self.pos - start > 200 {
-            return self.err("number too long");
-        }
-        let s: String = self.chars[start..self.pos].iter().map(|(_, c)| c).collect();
-        Ok(s.parse().expect("digits parse"))
-    }
-
-    fn small(&mut self, what: &str, limit: u64) -> Result<u64, PolyError> {
-        let v = self.integer()?;
-        match u64::try_from(&v) {
-            Ok(x) if x <= limit => Ok(x),
-            _ => self.err(format!("{what} {v} is too large (limit {limit})")),
-        }
-    }
-
     fn power(&mut self, limit: u32) -> Result<u32, PolyError> {
         if self.peek() == Some('^') {
             self.pos += 1;
