@@ -20,11 +20,15 @@ fn list(s: &str) -> Vec<i64> {
 }
 
 fn rows() -> Vec<Row> {
-    let text = std::fs::read_to_string(concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/tests/reference/m2_cohomology.tsv"
-    ))
-    .expect("the committed Macaulay2 table");
+    let mut all = table("m2_cohomology.tsv");
+    all.extend(table("m2_tate.tsv"));
+    all
+}
+
+/// Rows of one committed table in `tests/reference/`.
+fn table(name: &str) -> Vec<Row> {
+    let path = format!("{}/tests/reference/{name}", env!("CARGO_MANIFEST_DIR"));
+    let text = std::fs::read_to_string(&path).expect("a committed Macaulay2 table");
     let mut lines = text
         .lines()
         .filter(|l| !l.starts_with('#') && !l.trim().is_empty());
@@ -114,6 +118,36 @@ fn agrees_with_macaulay2_on_every_row() {
         "disagreements with Macaulay2:\n{}",
         mismatches.join("\n")
     );
+}
+
+/// The TateOnProducts row (tests/reference/m2_tate.tsv, script tate_p1_5_d2.m2): O(0,2,2,2,2) on P1^5 cut out by
+/// two given polynomials of multidegrees (1,1,1,1,2) and (1,1,1,1,0). Macaulay2 finds h = (80,0,0,0); the engine's
+/// E_1 page has 81 classes in degree 0, so only a non-zero d_2 (from E_1^{-2,1}, one class) gives 80. The test
+/// fails if the engine's value differs from Macaulay2's or if the row stops being one that d_2 decides.
+#[test]
+fn macaulay2_row_decided_by_a_nonzero_d2() {
+    let rows = table("m2_tate.tsv");
+    let r = rows
+        .iter()
+        .find(|r| r.ambient == [1, 1, 1, 1, 1] && r.bundle == [0, 2, 2, 2, 2])
+        .expect("the P1^5 row");
+    assert_eq!(r.h, vec![80, 0, 0, 0]);
+    let c = Configuration::new(&r.ambient, &r.equations).unwrap();
+    let layout = VariableLayout::new(c.dims());
+    let polys = r
+        .polynomials
+        .as_ref()
+        .expect("explicit polynomials")
+        .iter()
+        .map(|t| Polynomial::parse(t, &layout).unwrap())
+        .collect();
+    let engine = CohomologyEngine::new(&c, PolynomialChoice::Given(polys)).unwrap();
+    let ours = engine.cohomology(&r.bundle).unwrap();
+    assert_eq!(ours.h, r.h, "engine vs Macaulay2 TateOnProducts");
+    let degree0: usize = ours.e1.iter().filter(|g| g.q == g.p).map(|g| g.dim).sum();
+    assert_eq!(degree0, 81, "E_1 degree-0 dimension");
+    assert!(ours.e1.iter().any(|g| (g.p, g.q, g.dim) == (2, 1, 1)));
+    assert!(ours.method.higher_differentials());
 }
 
 #[test]
