@@ -166,8 +166,9 @@ fn special_member_jumps_relative_to_generic_in_macaulay2_too() {
 
 #[test]
 fn literature_model_spectrum_from_macaulay2() {
-    // The rank-5 tetra-quadric model of tests/spectrum_models.rs (recalled from the literature, from memory):
-    // its multiplet counts computed from Macaulay2's h^1 values alone.
+    // The rank-5 tetra-quadric model of tests/spectrum_models.rs (bundle recalled from the literature, from memory;
+    // counts are regression values, not checked against the paper's table): its multiplet counts computed from
+    // Macaulay2's h^1 values alone, so they do not depend on the engine.
     let lit: [[i64; 4]; 5] = [
         [-1, 0, 0, 1],
         [-1, -3, 2, 2],

@@ -13,11 +13,13 @@ use std::path::Path;
 /// A rank-5 SU(5) model on the tetra-quadric P1^4[2,2,2,2] recalled from the heterotic line-bundle
 /// standard-model literature (L. B. Anderson, J. Gray, A. Lukas, E. Palti, "Heterotic line bundle standard
 /// models", JHEP 06 (2012) 113, and its companion "Two hundred heterotic standard models on smooth Calabi-Yau
-/// threefolds", Phys. Rev. D 84 (2011) 106005). Bundle and spectrum are FROM MEMORY: c1(V) = 0, the anomaly
-/// bound holds, slopes vanish at t = (1,1,1,1), −χ(V) = 12 families on the covering space (3 after the
-/// order-4 freely acting symmetry), 10-plets h^1(L_2) = 8 and h^1(L_5) = 4, 5bar-plets from L_2⊗L_4 (4),
-/// L_2⊗L_5 (3), L_4⊗L_5 (8), one vector-like 5bar/5 pair family from L_2⊗L_5 (3 each), no 10bar.
-/// The same numbers are checked against Macaulay2 in `tests/reference_m2.rs` (rows tagged literature-model).
+/// threefolds", Phys. Rev. D 84 (2011) 106005). The bundle is FROM MEMORY; the per-multiplet counts below were
+/// NOT checked against the table of the paper (it could not be consulted), so they are REGRESSION VALUES:
+/// c1(V) = 0, the anomaly bound holds, slopes vanish at t = (1,1,1,1), −χ(V) = 12 families on the covering
+/// space, 10-plets h^1(L_2) = 8 and h^1(L_5) = 4, 5bar-plets from L_2⊗L_4 (4), L_2⊗L_5 (3), L_4⊗L_5 (8), one
+/// vector-like 5bar/5 pair family from L_2⊗L_5 (3 each), no 10bar. What makes them more than self-agreement:
+/// the same totals are recomputed from Macaulay2's h^1 values alone in `tests/reference_m2.rs`
+/// (`literature_model_spectrum_from_macaulay2`), and −χ(V) = 12 is the HRR index (an independent formula).
 const LITERATURE_MODEL: [[i64; 4]; 5] = [
     [-1, 0, 0, 1],
     [-1, -3, 2, 2],
