@@ -152,3 +152,21 @@ fn sign_obstruction_on_hand_made_cases() {
     assert_eq!(v["certificate"]["kind"], "sign_obstruction");
     assert_eq!(v["certificate"]["bundle"], 1);
 }
+
+/// The slope verifier must stay independent of the certifier (issue: one bug must not pass both): its source
+/// imports nothing from `certify`. Fails if someone re-couples them.
+#[test]
+fn slope_verifier_shares_no_code_with_the_certifier() {
+    let src = std::fs::read_to_string(concat!(env!("CARGO_MANIFEST_DIR"), "/src/slope/verify.rs"))
+        .unwrap();
+    let uses: Vec<&str> = src
+        .lines()
+        .filter(|l| l.trim_start().starts_with("use "))
+        .collect();
+    assert!(!uses.is_empty());
+    assert!(
+        uses.iter()
+            .all(|l| !l.contains("certify") && !l.contains("interval")),
+        "{uses:?}"
+    );
+}
