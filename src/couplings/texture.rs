@@ -13,7 +13,8 @@
 //!   `∧^{τ_1+τ_2+τ_3} N^*` while `H^3(X, O_X)` descends from the top power `∧^K N^*`. No value is computed for
 //!   such an entry;
 //! * `zero_computed` — the exact value was computed and is 0;
-//! * `value` — the exact value ([`CouplingValue`]);
+//! * `value` — the exact value ([`CouplingValue`]): a rational number, or over a one-parameter family
+//!   ([`couplings_in_family`], [`family`]) an exact rational function of the parameter;
 //! * `allowed_by_charge` — a two-factor operator (mass term): allowed by charge, no holomorphic value here;
 //! * `not_computed` — allowed, but no value could be computed (the product bundle is not trivial because
 //!   `c1(V) ≠ 0`, or a lift was refused as too large); the reason is in the class's `warnings`.
@@ -23,9 +24,10 @@
 //! allowed tuples but get no texture.
 //!
 //! Per texture: the **structural rank** (maximum bipartite matching of the not-forbidden pattern, with
-//! petgraph), the structural rank after the type theorem, the **rank** over Q when every entry is known
-//! exactly, and the exact **relations** (equal/opposite entries; equal, opposite, proportional or zero rows
-//! and columns). Values are in slot order `λ(row, column, choice)`; λ is graded antisymmetric in its slots,
+//! petgraph), the structural rank after the type theorem, the **rank** over Q (over `Q(parameter)` for
+//! rational-function values, `function_field`) when every entry is known exactly, and the exact **relations**
+//! (equal/opposite entries; equal, opposite, proportional or zero rows and columns; over a family also entries
+//! proportional by a constant and rows/columns proportional by a rational function). Values are in slot order `λ(row, column, choice)`; λ is graded antisymmetric in its slots,
 //! so transposed entries of a square texture differ by sign; the E8 structure constant (one overall sign per
 //! operator) is not included. All values share one normalisation of Ω ([`super::value::NORMALISATION`]).
 //!
@@ -713,7 +715,7 @@ impl Cubic<'_> {
                                 None => self
                                     .coupling_engine
                                     .yukawa_tensor(triple)
-                                    .map(FamilyValues::Member),
+                                    .map(|t| FamilyValues::Member(Box::new(t))),
                                 Some(f) => family_tensor(
                                     f,
                                     self.coupling_engine,

@@ -148,7 +148,7 @@ pub(super) enum FamilyValues {
     /// Rational functions in the member's basis order.
     Functions(Box<ParametricYukawa>),
     /// The member's exact values.
-    Member(YukawaTensor),
+    Member(Box<YukawaTensor>),
 }
 
 /// Compute the tensor of `bundles` over the family and compare it with the member (module documentation).
@@ -189,7 +189,7 @@ pub(super) fn family_tensor(
                 "{e}; the values are those of the member {} = {}",
                 family.parameter, family.member
             ));
-            return Ok((FamilyValues::Member(member), record));
+            return Ok((FamilyValues::Member(Box::new(member)), record));
         }
     };
     let pts = |v: &[BigRational]| v.iter().map(|x| x.to_string()).collect::<Vec<_>>();
@@ -208,7 +208,7 @@ pub(super) fn family_tensor(
             "the member {} = {} has h^1 {:?} and types other than the generic h^1 {:?}: the values are the member's",
             family.parameter, family.member, member.dims, param.dims
         ));
-        return Ok((FamilyValues::Member(member), record));
+        return Ok((FamilyValues::Member(Box::new(member)), record));
     }
     let agrees = param
         .values
