@@ -11,7 +11,13 @@
 //!   `H^{1+τ_i}(A, ∧^{τ_i} N^* ⊗ L_i)` with `L_1 ⊗ L_2 ⊗ L_3 = O_X`, the holomorphic Yukawa coupling
 //!   `∫ Ω ∧ ν_1 ∧ ν_2 ∧ ν_3` vanishes whenever `τ_1 + τ_2 + τ_3 < K`, because the product lands in
 //!   `∧^{τ_1+τ_2+τ_3} N^*` while `H^3(X, O_X)` descends from the top power `∧^K N^*`. No value is computed for
-//!   such an entry;
+//!   such an entry. Sources checked: the existence of a vanishing theorem of this kind for line bundles that
+//!   descend from the ambient space is stated in the abstracts of S. Blesneag, "Holomorphic Yukawa couplings in
+//!   heterotic string theory", DPhil thesis, Oxford 2021 (arXiv:2204.01165), and of L. B. Anderson, J. Gray,
+//!   M. Larfors, M. Magill, R. Schneider, "Generalized vanishing theorems for Yukawa couplings in heterotic
+//!   compactifications" (arXiv:2103.10454, an algebro-geometric re-derivation and generalisation); the exact
+//!   inequality `τ_1 + τ_2 + τ_3 < K` and its hypotheses are from memory (not checked against the paper's text)
+//!   and are tested against computed values in `tests/couplings_invariants.rs`;
 //! * `zero_computed` — the exact value was computed and is 0;
 //! * `value` — the exact value ([`CouplingValue`]): a rational number, or over a one-parameter family
 //!   ([`couplings_in_family`], [`family`]) an exact rational function of the parameter;
