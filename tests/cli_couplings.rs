@@ -116,6 +116,64 @@ fn inline_bundles_singlets_and_timing() {
     assert!(out.contains("switched on by singlets"), "{out}");
 }
 
+/// A model with a symbolic parameter: the values are rational functions of it (text and JSON with the
+/// coefficients), the reconstruction data and the special-value list are reported, and no warning says the
+/// functions are missing. The values themselves are checked against direct computations in
+/// `tests/couplings_parametric.rs`.
+#[test]
+fn parameter_model_gets_rational_function_values() {
+    let (code, out, err) = sheafwright(&["couplings", "catalogs-demo/tetraquadric-psi.toml"]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("exact rational functions of psi"), "{out}");
+    assert!(out.contains("degree bound"), "{out}");
+    assert!(out.contains("special values of psi"), "{out}");
+    assert!(!err.contains("not yet shown") && !out.contains("not yet shown"));
+    let v = json(&["couplings", "catalogs-demo/tetraquadric-psi.toml", "--json"]);
+    let f = &v["family"];
+    assert_eq!(f["parameter"], "psi");
+    assert_eq!(f["member"], "1/2");
+    let tensors = f["tensors"].as_array().expect("tensors");
+    assert!(!tensors.is_empty());
+    for t in tensors {
+        assert_eq!(t["values"], "rational_functions");
+        assert!(t["total_degree_bound"].is_u64());
+        assert_eq!(t["check_points"].as_array().unwrap().len(), 3);
+        assert!(t["special_values"].is_array());
+    }
+    assert!(f["special_values"].is_array());
+    let valued: Vec<&serde_json::Value> = v["classes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .flat_map(|c| c["entries"].as_array().unwrap())
+        .filter(|e| e["status"] == "value")
+        .collect();
+    assert!(!valued.is_empty());
+    for e in valued {
+        assert!(e["value"].is_string());
+        let rf = &e["rational_function"];
+        assert_eq!(rf["parameter"], "psi");
+        assert!(
+            rf["numerator"]
+                .as_array()
+                .unwrap()
+                .iter()
+                .all(|c| c.is_string())
+        );
+        assert!(!rf["denominator"].as_array().unwrap().is_empty());
+    }
+    // --mode generic: a generic member, the parameter plays no role, and the output says so.
+    let (code, out, err) = sheafwright(&[
+        "couplings",
+        "catalogs-demo/tetraquadric-psi.toml",
+        "--mode",
+        "generic",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("generic member (--mode generic)"), "{out}");
+    assert!(!out.contains("rational functions of psi"));
+}
+
 #[test]
 fn report_has_couplings_section() {
     let (code, out, err) = sheafwright(&["report", "catalogs-demo/tetraquadric-so10.toml"]);

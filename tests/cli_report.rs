@@ -15,6 +15,7 @@ const MODELS: &[&str] = &[
     "tetraquadric-a",
     "tetraquadric-anomaly",
     "tetraquadric-e6",
+    "tetraquadric-psi",
     "tetraquadric-so10",
     "tetraquadric-special",
 ];

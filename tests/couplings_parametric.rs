@@ -176,3 +176,105 @@ fn sample_values_start_with_small_integers() {
     assert_eq!(sample_value(3), q(2, 1));
     assert_eq!(sample_value(5), q(1, 2));
 }
+
+/// An invented SU(5) sum on the demo family with `L_1 = (2,0,2,−2)`, `L_2 = (2,0,−2,2)`: the up-type texture
+/// `10_1 10_2 5_{1,2}` is the ψ-dependent triple above, so the textures hold non-constant rational functions.
+const FAMILY_SUM: [[i64; 4]; 5] = [
+    [2, 0, 2, -2],
+    [2, 0, -2, 2],
+    [-2, 1, 0, 0],
+    [-1, -1, 1, 0],
+    [-1, 0, -1, 0],
+];
+
+/// The texture layer over the demo family (`couplings_in_family`) against an independent path: at values of ψ
+/// that were never sampled, every rational-function entry of the `10 10 5` textures must equal the plain
+/// `yukawa_tensor` of the specialised polynomials (`10_2 10_1` entries: minus the transposed value, graded
+/// antisymmetry), and the rank over Q(ψ) must be the largest rank of the specialised matrices.
+#[test]
+fn family_textures_specialise_to_the_direct_values_of_fresh_members() {
+    use sheafwright::bundle::BundleSum;
+    use sheafwright::couplings::texture::ParameterFamily;
+    use sheafwright::couplings::{CouplingOptions, EntryStatus, couplings_in_family};
+    let model = demo();
+    let par = model.parameter().unwrap();
+    let member = CohomologyEngine::new(
+        model.config(),
+        PolynomialChoice::Given(model.polynomials().unwrap().to_vec()),
+    )
+    .unwrap();
+    let sum = BundleSum::new(4, FAMILY_SUM.iter().map(|k| k.to_vec()).collect()).unwrap();
+    let family = ParameterFamily {
+        config: model.config(),
+        parameter: &par.name,
+        polynomials: &par.polynomials,
+        member: par.value.clone(),
+        options: ParametricOptions::default(),
+    };
+    let report = couplings_in_family(&member, &sum, &CouplingOptions::default(), &family).unwrap();
+    let summary = report.family.as_ref().expect("family data");
+    assert!(
+        summary
+            .tensors
+            .iter()
+            .all(|t| t.values == "rational_functions" && t.member_check == "agrees"),
+        "{:?}",
+        summary.tensors
+    );
+    let (l1, l2) = (&FAMILY_SUM[0], &FAMILY_SUM[1]);
+    let l5: Vec<i64> = (0..4).map(|i| -l1[i] - l2[i]).collect();
+    let fresh = [q(7, 5), q(-11, 3)];
+    let direct: Vec<_> = fresh
+        .iter()
+        .map(|v| {
+            let polys = par.polynomials.iter().map(|p| p.eval(v)).collect();
+            let e = CohomologyEngine::new(model.config(), PolynomialChoice::Given(polys)).unwrap();
+            yukawa_tensor(&e, [l1, l2, &l5]).unwrap()
+        })
+        .collect();
+    let index = |label: &str| -> (String, usize) {
+        let (m, n) = label.split_once('#').unwrap();
+        (m.to_string(), n.parse::<usize>().unwrap() - 1)
+    };
+    let (mut checked, mut non_constant) = (0, 0);
+    for c in report.classes.iter().filter(|c| c.operator == "10 10 5") {
+        let (_, l) = index(c.choice.as_deref().unwrap());
+        for e in &c.entries {
+            let (rm, i) = index(&e.fields[0]);
+            let (cm, j) = index(&e.fields[1]);
+            let f = match e.status {
+                EntryStatus::Value => e.value.as_ref().unwrap().to_function().unwrap(),
+                EntryStatus::ZeroComputed => RationalFunction::constant(BigRational::zero()),
+                _ => continue,
+            };
+            non_constant += usize::from(f.as_constant().is_none());
+            for (v, d) in fresh.iter().zip(&direct) {
+                let want = match (rm.as_str(), cm.as_str()) {
+                    ("10_{1}", "10_{2}") => d.get(i, j, l).clone(),
+                    ("10_{2}", "10_{1}") => -d.get(j, i, l),
+                    other => panic!("unexpected allowed entry {other:?}"),
+                };
+                assert_eq!(f.eval(v), Some(want), "{:?} at {v}", e.fields);
+                checked += 1;
+            }
+        }
+        // Rank over Q(ψ) = the largest rank of the specialised matrices (equal outside finitely many ψ).
+        let nc = c.columns.len();
+        let specialised_rank = |v: &BigRational| {
+            let m: Vec<Vec<BigRational>> = (0..c.rows.len())
+                .map(|r| {
+                    (0..nc)
+                        .map(|k| match &c.entries[r * nc + k].value {
+                            Some(x) => x.to_function().unwrap().eval(v).unwrap(),
+                            None => BigRational::zero(),
+                        })
+                        .collect()
+                })
+                .collect();
+            sheafwright::couplings::texture::exact_rank(&m)
+        };
+        let best = fresh.iter().map(specialised_rank).max().unwrap();
+        assert_eq!(c.rank, Some(best), "[{}] {:?}", c.operator, c.choice);
+    }
+    assert!(checked > 0 && non_constant > 0, "{checked} {non_constant}");
+}

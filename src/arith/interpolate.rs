@@ -257,6 +257,45 @@ impl RationalFunction {
             Some(self.numerator.eval(t) / d)
         }
     }
+    /// True for the zero function.
+    pub fn is_zero(&self) -> bool {
+        self.numerator.is_zero()
+    }
+    /// `−self`.
+    pub fn neg(&self) -> Self {
+        RationalFunction {
+            numerator: self.numerator.scale(&-BigRational::one()),
+            denominator: self.denominator.clone(),
+        }
+    }
+    /// `self + other`, in lowest terms.
+    pub fn add(&self, other: &RationalFunction) -> Self {
+        let num = self
+            .numerator
+            .mul(&other.denominator)
+            .add(&other.numerator.mul(&self.denominator));
+        RationalFunction::new(num, self.denominator.mul(&other.denominator))
+            .expect("a product of monic denominators is non-zero")
+    }
+    /// `self − other`, in lowest terms.
+    pub fn sub(&self, other: &RationalFunction) -> Self {
+        self.add(&other.neg())
+    }
+    /// `self · other`, in lowest terms.
+    pub fn mul(&self, other: &RationalFunction) -> Self {
+        RationalFunction::new(
+            self.numerator.mul(&other.numerator),
+            self.denominator.mul(&other.denominator),
+        )
+        .expect("a product of monic denominators is non-zero")
+    }
+    /// `self / other`, in lowest terms; `None` when `other` is the zero function.
+    pub fn div(&self, other: &RationalFunction) -> Option<Self> {
+        RationalFunction::new(
+            self.numerator.mul(&other.denominator),
+            self.denominator.mul(&other.numerator),
+        )
+    }
     /// Render as `(num)/(den)` or just `num` with the variable `var`.
     pub fn to_text(&self, var: &str) -> String {
         if self.is_polynomial() {
@@ -554,5 +593,31 @@ mod tests {
             rational_roots(&UniPoly::from_ints(&[1_000_001, 1]), 1000),
             None
         );
+    }
+
+    #[test]
+    fn rational_function_field_operations_agree_with_evaluation() {
+        // f = (x^2 − 1)/(x + 2), g = 3x/(2x − 1): every operation must commute with evaluation at points that
+        // are not poles, and results stay in lowest terms (f·(1/f) = 1 exactly).
+        let f = RationalFunction::new(UniPoly::from_ints(&[-1, 0, 1]), UniPoly::from_ints(&[2, 1]))
+            .unwrap();
+        let g = RationalFunction::new(UniPoly::from_ints(&[0, 3]), UniPoly::from_ints(&[-1, 2]))
+            .unwrap();
+        for t in [q(3, 1), q(-5, 7), q(11, 2)] {
+            let (a, b) = (f.eval(&t).unwrap(), g.eval(&t).unwrap());
+            assert_eq!(f.add(&g).eval(&t), Some(&a + &b));
+            assert_eq!(f.sub(&g).eval(&t), Some(&a - &b));
+            assert_eq!(f.mul(&g).eval(&t), Some(&a * &b));
+            assert_eq!(f.div(&g).unwrap().eval(&t), Some(&a / &b));
+            assert_eq!(f.neg().eval(&t), Some(-a));
+        }
+        let one = RationalFunction::constant(q(1, 1));
+        assert_eq!(f.mul(&one.div(&f).unwrap()), one);
+        assert!(f.sub(&f).is_zero());
+        assert!(f.div(&f.sub(&f)).is_none());
+        // (x − 1)(x + 1)/(x + 2) · (x + 2)/(x + 1) = x − 1.
+        let h = RationalFunction::new(UniPoly::from_ints(&[2, 1]), UniPoly::from_ints(&[1, 1]))
+            .unwrap();
+        assert_eq!(f.mul(&h).to_text("t"), "t - 1");
     }
 }

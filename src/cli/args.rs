@@ -122,22 +122,25 @@ pub struct PolyArgs {
 }
 
 impl PolyArgs {
-    /// Build the cohomology engine for these inputs.
-    pub fn engine(&self, inputs: &Inputs) -> Result<CohomologyEngine, UserError> {
+    /// The polynomial mode in effect: `--mode`, else the model file's, else generic.
+    pub fn effective_mode(&self, inputs: &Inputs) -> Result<PolynomialMode, UserError> {
         let model_mode = inputs
             .model()
             .map(|m| m.mode())
             .unwrap_or(PolynomialMode::Generic);
-        let mode = match self.mode.as_deref() {
-            None => model_mode,
-            Some("generic") => PolynomialMode::Generic,
-            Some("given") => PolynomialMode::Given,
-            Some(other) => {
-                return Err(UserError(format!(
-                    "--mode: unknown mode {other:?}; use generic or given"
-                )));
-            }
-        };
+        match self.mode.as_deref() {
+            None => Ok(model_mode),
+            Some("generic") => Ok(PolynomialMode::Generic),
+            Some("given") => Ok(PolynomialMode::Given),
+            Some(other) => Err(UserError(format!(
+                "--mode: unknown mode {other:?}; use generic or given"
+            ))),
+        }
+    }
+
+    /// Build the cohomology engine for these inputs.
+    pub fn engine(&self, inputs: &Inputs) -> Result<CohomologyEngine, UserError> {
+        let mode = self.effective_mode(inputs)?;
         let choice = match mode {
             PolynomialMode::Generic => PolynomialChoice::Generic {
                 seed: self

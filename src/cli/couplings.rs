@@ -6,9 +6,15 @@
 
 use super::UserError;
 use super::args::{ConfigArgs, Inputs, PolyArgs};
+use sheafwright::bundle::BundleSum;
+use sheafwright::cohomology::CohomologyEngine;
+use sheafwright::couplings::parametric::{ParametricOptions, SpecialKind};
+use sheafwright::couplings::texture::{FamilySummary, ParameterFamily, TextureError};
 use sheafwright::couplings::{
-    CouplingClass, CouplingOptions, CouplingReport, EntryStatus, couplings,
+    CouplingClass, CouplingOptions, CouplingReport, CouplingValue, EntryStatus, couplings,
+    couplings_in_family,
 };
+use sheafwright::io::model::PolynomialMode;
 use std::fmt::Write;
 
 /// Parsed flags of `couplings`.
@@ -31,8 +37,7 @@ pub fn run(a: CouplingsArgs) -> Result<String, UserError> {
         values: true,
     };
     let started = std::time::Instant::now();
-    let mut report = couplings(&engine, &sum, &options)?;
-    report.warnings.extend(parameter_warning(&inputs));
+    let report = model_couplings(&inputs, &a.poly, &engine, &sum, &options)?;
     if a.timing {
         for t in &report.timings {
             eprintln!(
@@ -64,30 +69,81 @@ pub fn run(a: CouplingsArgs) -> Result<String, UserError> {
     }
 }
 
-/// With a symbolic parameter in the model, the texture values are those of one member: say which, and where the
-/// exact rational functions come from.
-pub fn parameter_warning(inputs: &Inputs) -> Option<String> {
-    let p = inputs.model()?.parameter()?;
-    Some(format!(
-        "the model names the parameter {}: these values are for the member {} = {} (parameter_value); the library's `couplings::parametric_yukawa_tensor` gives every coupling as an exact rational function of {} (not yet shown by this command)",
-        p.name, p.name, p.value, p.name
-    ))
+/// The couplings of the model: with a symbolic parameter and the given polynomials, every value as an exact
+/// rational function of the parameter ([`couplings_in_family`], the engine holding the member at
+/// `parameter_value`); with `--mode generic` the parameter plays no role and a warning says so.
+pub fn model_couplings(
+    inputs: &Inputs,
+    poly: &PolyArgs,
+    engine: &CohomologyEngine,
+    sum: &BundleSum,
+    options: &CouplingOptions,
+) -> Result<CouplingReport, TextureError> {
+    let parameter = inputs.model().and_then(|m| m.parameter());
+    let given = matches!(poly.effective_mode(inputs), Ok(PolynomialMode::Given));
+    match parameter {
+        Some(p) if given => {
+            let family = ParameterFamily {
+                config: inputs.config(),
+                parameter: &p.name,
+                polynomials: &p.polynomials,
+                member: p.value.clone(),
+                options: ParametricOptions::default(),
+            };
+            couplings_in_family(engine, sum, options, &family)
+        }
+        Some(p) => {
+            let mut report = couplings(engine, sum, options)?;
+            report.warnings.push(format!(
+                "the model names the parameter {}, but these values are for a generic member (--mode generic), not the model's family",
+                p.name
+            ));
+            Ok(report)
+        }
+        None => couplings(engine, sum, options),
+    }
 }
 
 const LEGEND: &str = "legend: · forbidden_by_charge   * value (non-zero, shown in full by `couplings`)   τ vanishes_by_type (τ1+τ2+τ3 < K)   0 zero_computed   + allowed_by_charge (no holomorphic value)   ? not_computed   numbers: exact values";
 
-fn cell(c: &CouplingClass, r: usize, col: usize) -> String {
-    let e = &c.entries[r * c.columns.len() + col];
-    match (&e.status, &e.value) {
-        (EntryStatus::Value, Some(v)) => v.to_string(),
-        (s, _) => s.symbol().to_string(),
-    }
+/// Longest rational-function text shown inside a matrix cell; longer ones are named `f1`, `f2`, … and listed.
+const MAX_CELL_FUNCTION: usize = 12;
+
+/// The cell texts of a texture and the rational functions named in them (`(name, text)`).
+fn cells(c: &CouplingClass) -> (Vec<Vec<String>>, Vec<(String, String)>) {
+    let mut named: Vec<(String, String)> = Vec::new();
+    let cells = (0..c.rows.len())
+        .map(|r| {
+            (0..c.columns.len())
+                .map(|col| {
+                    let e = &c.entries[r * c.columns.len() + col];
+                    match (&e.status, &e.value) {
+                        (EntryStatus::Value, Some(v @ CouplingValue::RationalFunction { .. })) => {
+                            let text = v.to_string();
+                            if text.chars().count() <= MAX_CELL_FUNCTION {
+                                return text;
+                            }
+                            match named.iter().find(|(_, t)| *t == text) {
+                                Some((n, _)) => n.clone(),
+                                None => {
+                                    let n = format!("f{}", named.len() + 1);
+                                    named.push((n.clone(), text));
+                                    n
+                                }
+                            }
+                        }
+                        (EntryStatus::Value, Some(v)) => v.to_string(),
+                        (s, _) => s.symbol().to_string(),
+                    }
+                })
+                .collect()
+        })
+        .collect();
+    (cells, named)
 }
 
 fn matrix(out: &mut String, c: &CouplingClass, indent: &str) {
-    let cells: Vec<Vec<String>> = (0..c.rows.len())
-        .map(|r| (0..c.columns.len()).map(|col| cell(c, r, col)).collect())
-        .collect();
+    let (cells, named) = cells(c);
     let row_w = c.rows.iter().map(|l| l.chars().count()).max().unwrap_or(0);
     let widths: Vec<usize> = (0..c.columns.len())
         .map(|col| {
@@ -111,6 +167,92 @@ fn matrix(out: &mut String, c: &CouplingClass, indent: &str) {
             let _ = write!(out, " {}", pad(&row[col], *w));
         }
         out.push('\n');
+    }
+    for (n, text) in named {
+        let _ = writeln!(out, "{indent}{n} = {text}");
+    }
+}
+
+/// The family lines: what the rational functions are, how they were reconstructed, where they are special.
+fn family_text(out: &mut String, f: &FamilySummary, compact: bool) {
+    let functions = f
+        .tensors
+        .iter()
+        .filter(|t| t.values == "rational_functions")
+        .count();
+    let _ = writeln!(
+        out,
+        "  parameter {p}: the textures are labelled by the member {p} = {m}; {functions} of {} Yukawa tensor(s) are exact rational functions of {p}, rank over Q({p}) by {}",
+        f.tensors.len(),
+        f.rank_method
+            .replace("Q(parameter)", &format!("Q({})", f.parameter)),
+        p = f.parameter,
+        m = f.member,
+    );
+    for t in &f.tensors {
+        let degrees = match (t.total_degree_bound, t.max_degrees) {
+            (Some(b), Some((n, d))) => format!(
+                "degree bound deg num + deg den ≤ {b} (found ≤ {n} / ≤ {d}), {} interpolation point(s), checked at {}",
+                t.interpolation_points.len(),
+                t.check_points.join(", ")
+            ),
+            _ => "no reconstruction".to_string(),
+        };
+        let _ = writeln!(
+            out,
+            "    {} ({}x{}x{}): {}; {}; member check: {}",
+            t.fields.join(" "),
+            t.dims[0],
+            t.dims[1],
+            t.dims[2],
+            t.values.replace('_', " "),
+            degrees,
+            t.member_check.replace('_', " ")
+        );
+        if let Some(n) = &t.note {
+            let _ = writeln!(out, "      note: {n}");
+        }
+        if !compact && !t.interpolation_points.is_empty() {
+            let _ = writeln!(
+                out,
+                "      interpolation points: {}",
+                t.interpolation_points.join(", ")
+            );
+        }
+    }
+    if f.special_values.is_empty() {
+        let _ = writeln!(
+            out,
+            "  special values of {}: none found among the sample points and the rational roots of the denominators",
+            f.parameter
+        );
+    } else {
+        let _ = writeln!(out, "  special values of {}:", f.parameter);
+        for s in &f.special_values {
+            let what = match &s.kind {
+                SpecialKind::Degenerate { message } => format!("degenerate equations ({message})"),
+                SpecialKind::SpectrumJump { h1, generic_h1 } => {
+                    format!("h^1 jumps to {h1:?} (generic {generic_h1:?})")
+                }
+                SpecialKind::BasisChange => "the canonical basis changes (same h^1)".into(),
+                SpecialKind::PoleOnly => "a pole of the generic basis only".into(),
+            };
+            let _ = writeln!(
+                out,
+                "    {} = {}: {what}; found as {} for {}",
+                f.parameter,
+                s.value,
+                s.found_as.replace('_', " "),
+                s.tensors.join("; ")
+            );
+        }
+    }
+    if !f.unlocated_denominators.is_empty() {
+        let _ = writeln!(
+            out,
+            "  denominator factors with no located rational root (their zeros may be special): {}",
+            f.unlocated_denominators.join(", ")
+        );
     }
 }
 
@@ -198,6 +340,9 @@ pub fn text(report: &CouplingReport, compact: bool) -> String {
         "  values λ(row, column, choice) in slot order; λ is graded antisymmetric in its slots (no E8 structure constant)"
     );
     let _ = writeln!(out, "  {LEGEND}");
+    if let Some(f) = &report.family {
+        family_text(&mut out, f, compact);
+    }
     if !compact {
         let _ = writeln!(out, "\n  operators (allowed tuples of present multiplets):");
         for o in &report.operators {

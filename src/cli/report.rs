@@ -63,16 +63,13 @@ impl<'a> ReportData<'a> {
         };
         let couplings = match &analysis {
             Some(_) => Some(
-                sheafwright::couplings::couplings(
+                super::couplings::model_couplings(
+                    inputs,
+                    &args::PolyArgs::default(),
                     &engine,
                     &args::bundle_sum(inputs, None)?,
                     &sheafwright::couplings::CouplingOptions::default(),
                 )
-                .map(|mut c| {
-                    c.warnings
-                        .extend(super::couplings::parameter_warning(inputs));
-                    c
-                })
                 .map_err(|e| e.to_string()),
             ),
             None => None,

@@ -14,8 +14,8 @@ pub mod value;
 
 pub use operators::{Operator, enumerate_operators};
 pub use texture::{
-    CouplingClass, CouplingOptions, CouplingReport, CouplingValue, EntryStatus, TextureError,
-    couplings, structural_rank,
+    CouplingClass, CouplingOptions, CouplingReport, CouplingValue, EntryStatus, ParameterFamily,
+    TextureError, couplings, couplings_in_family, structural_rank,
 };
 pub use value::{
     CouplingEngine, CouplingError, LiftedBasis, MAX_COCHAIN_TERMS, NORMALISATION, YukawaTensor,

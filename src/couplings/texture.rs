@@ -11,9 +11,16 @@
 //!   `H^{1+τ_i}(A, ∧^{τ_i} N^* ⊗ L_i)` with `L_1 ⊗ L_2 ⊗ L_3 = O_X`, the holomorphic Yukawa coupling
 //!   `∫ Ω ∧ ν_1 ∧ ν_2 ∧ ν_3` vanishes whenever `τ_1 + τ_2 + τ_3 < K`, because the product lands in
 //!   `∧^{τ_1+τ_2+τ_3} N^*` while `H^3(X, O_X)` descends from the top power `∧^K N^*`. No value is computed for
-//!   such an entry;
+//!   such an entry. Sources checked: the existence of a vanishing theorem of this kind for line bundles that
+//!   descend from the ambient space is stated in the abstracts of S. Blesneag, "Holomorphic Yukawa couplings in
+//!   heterotic string theory", DPhil thesis, Oxford 2021 (arXiv:2204.01165), and of L. B. Anderson, J. Gray,
+//!   M. Larfors, M. Magill, R. Schneider, "Generalized vanishing theorems for Yukawa couplings in heterotic
+//!   compactifications" (arXiv:2103.10454, an algebro-geometric re-derivation and generalisation); the exact
+//!   inequality `τ_1 + τ_2 + τ_3 < K` and its hypotheses are from memory (not checked against the paper's text)
+//!   and are tested against computed values in `tests/couplings_invariants.rs`;
 //! * `zero_computed` — the exact value was computed and is 0;
-//! * `value` — the exact value ([`CouplingValue`]);
+//! * `value` — the exact value ([`CouplingValue`]): a rational number, or over a one-parameter family
+//!   ([`couplings_in_family`], [`family`]) an exact rational function of the parameter;
 //! * `allowed_by_charge` — a two-factor operator (mass term): allowed by charge, no holomorphic value here;
 //! * `not_computed` — allowed, but no value could be computed (the product bundle is not trivial because
 //!   `c1(V) ≠ 0`, or a lift was refused as too large); the reason is in the class's `warnings`.
@@ -23,9 +30,10 @@
 //! allowed tuples but get no texture.
 //!
 //! Per texture: the **structural rank** (maximum bipartite matching of the not-forbidden pattern, with
-//! petgraph), the structural rank after the type theorem, the **rank** over Q when every entry is known
-//! exactly, and the exact **relations** (equal/opposite entries; equal, opposite, proportional or zero rows
-//! and columns). Values are in slot order `λ(row, column, choice)`; λ is graded antisymmetric in its slots,
+//! petgraph), the structural rank after the type theorem, the **rank** over Q (over `Q(parameter)` for
+//! rational-function values, `function_field`) when every entry is known exactly, and the exact **relations**
+//! (equal/opposite entries; equal, opposite, proportional or zero rows and columns; over a family also entries
+//! proportional by a constant and rows/columns proportional by a rational function). Values are in slot order `λ(row, column, choice)`; λ is graded antisymmetric in its slots,
 //! so transposed entries of a square texture differ by sign; the E8 structure constant (one overall sign per
 //! operator) is not included. All values share one normalisation of Ω ([`super::value::NORMALISATION`]).
 //!
@@ -34,6 +42,7 @@
 
 use super::operators::{Operator, SingletField, enumerate_operators, singlet_insertions};
 use super::value::{CouplingEngine, CouplingError, NORMALISATION};
+use crate::arith::{RationalFunction, UniPoly};
 use crate::bundle::spectrum::{Multiplet, Spectrum};
 use crate::bundle::{BundleError, BundleSum, charge_is_singlet};
 use crate::cohomology::CohomologyEngine;
@@ -97,36 +106,53 @@ impl CouplingValue {
     }
 }
 
+impl CouplingValue {
+    /// The value as a rational function of `parameter`.
+    pub fn from_function(parameter: &str, f: &RationalFunction) -> Self {
+        CouplingValue::RationalFunction {
+            parameter: parameter.to_string(),
+            numerator: f.numerator().coeffs().to_vec(),
+            denominator: f.denominator().coeffs().to_vec(),
+        }
+    }
+
+    /// The value as a rational function (a rational number is a constant one); `None` for a zero denominator.
+    pub fn to_function(&self) -> Option<RationalFunction> {
+        match self {
+            CouplingValue::Rational(q) => Some(RationalFunction::constant(q.clone())),
+            CouplingValue::RationalFunction {
+                numerator,
+                denominator,
+                ..
+            } => RationalFunction::new(
+                UniPoly::new(numerator.clone()),
+                UniPoly::new(denominator.clone()),
+            ),
+        }
+    }
+}
+
+/// A rational number as `p/q`; a rational function in lowest terms with a monic denominator, highest powers
+/// first, `num` alone when the denominator is 1, else `(num)/(den)`, e.g. `(-2/3*psi^2 + 1)/(psi)`.
 impl std::fmt::Display for CouplingValue {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
         match self {
             CouplingValue::Rational(q) => write!(f, "{q}"),
-            CouplingValue::RationalFunction {
-                parameter,
-                numerator,
-                denominator,
-            } => {
-                let poly = |c: &[BigRational]| {
-                    let terms: Vec<String> = c
-                        .iter()
-                        .enumerate()
-                        .filter(|(_, x)| !x.is_zero())
-                        .map(|(i, x)| match i {
-                            0 => format!("{x}"),
-                            1 => format!("({x})*{parameter}"),
-                            _ => format!("({x})*{parameter}^{i}"),
-                        })
-                        .collect();
-                    if terms.is_empty() {
-                        "0".to_string()
-                    } else {
-                        terms.join(" + ")
-                    }
-                };
-                write!(f, "({})/({})", poly(numerator), poly(denominator))
-            }
+            CouplingValue::RationalFunction { parameter, .. } => match self.to_function() {
+                Some(r) => f.write_str(&r.to_text(parameter)),
+                None => f.write_str("undefined (zero denominator)"),
+            },
         }
     }
+}
+
+/// The coefficients of a rational-function value, ascending powers of `parameter`, each an exact rational as a
+/// string (the JSON form beside the `value` text).
+#[derive(Debug, Clone, PartialEq, Eq, Serialize)]
+pub struct FunctionCoefficients {
+    pub parameter: String,
+    pub numerator: Vec<String>,
+    pub denominator: Vec<String>,
 }
 
 /// Serialised as a string (`"3/2"`, or the rational-function text).
@@ -184,12 +210,37 @@ pub struct Entry {
     /// The exact value when known and non-zero.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub value: Option<CouplingValue>,
+    /// For a rational-function `value`: its coefficients (set together with `value` by [`Entry::set_value`]).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub rational_function: Option<FunctionCoefficients>,
     /// Types τ of the fields (three-factor operators, when charge-allowed).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub types: Option<Vec<usize>>,
     /// For a forbidden entry: the products of present singlets that would allow it (`--singlets N`).
     #[serde(skip_serializing_if = "Vec::is_empty")]
     pub singlet_insertions: Vec<Vec<String>>,
+}
+
+impl Entry {
+    /// Set the value (and, for a rational function, its coefficients).
+    pub fn set_value(&mut self, v: CouplingValue) {
+        self.rational_function = match &v {
+            CouplingValue::Rational(_) => None,
+            CouplingValue::RationalFunction {
+                parameter,
+                numerator,
+                denominator,
+            } => {
+                let text = |c: &[BigRational]| c.iter().map(|x| x.to_string()).collect();
+                Some(FunctionCoefficients {
+                    parameter: parameter.clone(),
+                    numerator: text(numerator),
+                    denominator: text(denominator),
+                })
+            }
+        };
+        self.value = Some(v);
+    }
 }
 
 /// An exact relation inside a texture.
@@ -203,8 +254,11 @@ pub struct Relation {
     pub first: String,
     /// Second member (empty for `"zero"`).
     pub second: String,
-    /// `second = factor · first` (a rational as a string).
+    /// `second = factor · first` (a rational, or a rational function of the parameter, as a string).
     pub factor: String,
+    /// True when `factor` is a non-constant rational function of the parameter.
+    #[serde(skip_serializing_if = "std::ops::Not::not")]
+    pub factor_depends_on_parameter: bool,
 }
 
 /// One coupling matrix.
@@ -227,7 +281,7 @@ pub struct CouplingClass {
     pub structural_rank: usize,
     /// Maximum bipartite matching after removing the entries that vanish by type.
     pub structural_rank_after_type: usize,
-    /// Exact rank over Q when every entry is known.
+    /// Exact rank over Q (over `Q(parameter)` for rational-function values) when every entry is known.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub rank: Option<usize>,
     /// Exact relations between entries, rows and columns.
@@ -296,6 +350,10 @@ pub struct CouplingReport {
     /// Per-operator timings.
     #[serde(skip)]
     pub timings: Vec<OperatorTiming>,
+    /// For a one-parameter family ([`couplings_in_family`]): the reconstruction of every tensor and the special
+    /// parameter values.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub family: Option<FamilySummary>,
 }
 
 /// The spectrum of `bundles` on the engine's configuration (the cohomology engine supplies every `h`).
@@ -347,6 +405,29 @@ pub fn couplings(
     bundles: &BundleSum,
     options: &CouplingOptions,
 ) -> Result<CouplingReport, TextureError> {
+    couplings_with(engine, bundles, options, None)
+}
+
+/// The couplings of `bundles` over a one-parameter family whose member at `family.member` is the engine's:
+/// textures labelled by the member's spectrum, every computed value an exact rational function of the
+/// parameter (see [`family`] for the member check and the fall-backs), ranks over `Q(parameter)`, relations
+/// with rational-function factors, and [`CouplingReport::family`] with the degree bounds, check points and
+/// special values.
+pub fn couplings_in_family(
+    engine: &CohomologyEngine,
+    bundles: &BundleSum,
+    options: &CouplingOptions,
+    family: &ParameterFamily,
+) -> Result<CouplingReport, TextureError> {
+    couplings_with(engine, bundles, options, Some(family))
+}
+
+fn couplings_with(
+    engine: &CohomologyEngine,
+    bundles: &BundleSum,
+    options: &CouplingOptions,
+    family: Option<&ParameterFamily>,
+) -> Result<CouplingReport, TextureError> {
     if options.singlets > MAX_SINGLET_INSERTIONS {
         return Err(TextureError::TooManySinglets(options.singlets));
     }
@@ -380,6 +461,7 @@ pub fn couplings(
     let mut classes = Vec::new();
     let mut timings = Vec::new();
     let mut all_forbidden_textures = 0;
+    let mut summary = family.map(FamilySummary::new);
     for op in enumerate_operators(group) {
         let started = Instant::now();
         operators.push(summarise(&op, &spectrum)?);
@@ -399,8 +481,9 @@ pub fn couplings(
                     options,
                     k_codim,
                     coupling_engine: &coupling_engine,
+                    family,
                 };
-                let (cls, n) = ctx.textures(&mut types_cache)?;
+                let (cls, n) = ctx.textures(&mut types_cache, summary.as_mut())?;
                 tensors = n;
                 classes.extend(cls);
             }
@@ -429,6 +512,7 @@ pub fn couplings(
         classes,
         all_forbidden_textures,
         timings,
+        family: summary,
     })
 }
 
@@ -511,6 +595,7 @@ fn bilinear(
                     EntryStatus::ForbiddenByCharge
                 },
                 value: None,
+                rational_function: None,
                 types: None,
                 singlet_insertions: if allowed {
                     vec![]
@@ -537,6 +622,7 @@ struct Cubic<'a> {
     options: &'a CouplingOptions,
     k_codim: usize,
     coupling_engine: &'a CouplingEngine<'a>,
+    family: Option<&'a ParameterFamily<'a>>,
 }
 
 impl Cubic<'_> {
@@ -557,6 +643,7 @@ impl Cubic<'_> {
     fn textures(
         &self,
         types_cache: &mut std::collections::HashMap<Vec<i64>, Vec<usize>>,
+        mut summary: Option<&mut FamilySummary>,
     ) -> Result<(Vec<CouplingClass>, usize), TextureError> {
         let op = self.op;
         let rows = side(self.spectrum, op.slots[0]);
@@ -567,8 +654,7 @@ impl Cubic<'_> {
         }
         check_side(op, "row", rows.labels.len())?;
         check_side(op, "column", cols.labels.len())?;
-        let mut tensors: std::collections::HashMap<[String; 3], super::value::YukawaTensor> =
-            Default::default();
+        let mut tensors: std::collections::HashMap<[String; 3], FamilyValues> = Default::default();
         let mut warned: Vec<String> = Vec::new();
         let mut out = Vec::new();
         for (h, (hm, hi)) in choices.classes.iter().enumerate() {
@@ -592,6 +678,7 @@ impl Cubic<'_> {
                         column: c,
                         status: EntryStatus::ForbiddenByCharge,
                         value: None,
+                        rational_function: None,
                         types: None,
                         singlet_insertions: vec![],
                     };
@@ -625,11 +712,30 @@ impl Cubic<'_> {
                     } else {
                         let key = [rm.label.clone(), cm.label.clone(), hm.label.clone()];
                         if !tensors.contains_key(&key) && !warned.contains(&key.join(" ")) {
-                            match self.coupling_engine.yukawa_tensor([
-                                &rm.line_bundle,
-                                &cm.line_bundle,
-                                &hm.line_bundle,
-                            ]) {
+                            let triple = [
+                                rm.line_bundle.as_slice(),
+                                cm.line_bundle.as_slice(),
+                                hm.line_bundle.as_slice(),
+                            ];
+                            let computed = match self.family {
+                                None => self
+                                    .coupling_engine
+                                    .yukawa_tensor(triple)
+                                    .map(|t| FamilyValues::Member(Box::new(t))),
+                                Some(f) => family_tensor(
+                                    f,
+                                    self.coupling_engine,
+                                    [&key[0], &key[1], &key[2]],
+                                    triple,
+                                )
+                                .map(|(v, record)| {
+                                    if let Some(s) = summary.as_deref_mut() {
+                                        s.push(record);
+                                    }
+                                    v
+                                }),
+                            };
+                            match computed {
                                 Ok(t) => {
                                     tensors.insert(key.clone(), t);
                                 }
@@ -642,12 +748,23 @@ impl Cubic<'_> {
                             }
                         }
                         if let Some(t) = tensors.get(&key) {
-                            let v = t.get(*ri, *ci, *hi);
-                            if v.is_zero() {
-                                entry.status = EntryStatus::ZeroComputed;
-                            } else {
-                                entry.status = EntryStatus::Value;
-                                entry.value = Some(CouplingValue::Rational(v.clone()));
+                            let value = match t {
+                                FamilyValues::Member(t) => {
+                                    let v = t.get(*ri, *ci, *hi);
+                                    (!v.is_zero()).then(|| CouplingValue::Rational(v.clone()))
+                                }
+                                FamilyValues::Functions(t) => {
+                                    let f = t.get(*ri, *ci, *hi);
+                                    (!f.is_zero())
+                                        .then(|| CouplingValue::from_function(&t.parameter, f))
+                                }
+                            };
+                            match value {
+                                None => entry.status = EntryStatus::ZeroComputed,
+                                Some(v) => {
+                                    entry.status = EntryStatus::Value;
+                                    entry.set_value(v);
+                                }
                             }
                         } else if warned.contains(&key.join(" ")) {
                             push_unique(
@@ -699,21 +816,7 @@ fn finish(
             EntryStatus::ForbiddenByCharge | EntryStatus::VanishesByType
         )
     }));
-    let values: Option<Vec<Vec<BigRational>>> = if entries.iter().all(|e| e.status.is_known()) {
-        (0..nr)
-            .map(|r| {
-                (0..nc)
-                    .map(|c| match &entries[r * nc + c].value {
-                        None => Some(BigRational::zero()),
-                        Some(v) => v.as_rational().cloned(),
-                    })
-                    .collect()
-            })
-            .collect()
-    } else {
-        None
-    };
-    let rank = values.as_ref().map(|m| exact_rank(m));
+    let rank = texture_rank(nr, nc, &entries);
     let relations = relations(&rows, &columns, &entries);
     CouplingClass {
         operator: op.name.clone(),
@@ -730,9 +833,14 @@ fn finish(
     }
 }
 
+pub mod family;
+mod function_field;
 mod relations;
-use relations::relations;
+pub use family::{FamilySpecialValue, FamilySummary, FamilyTensor, ParameterFamily};
+use family::{FamilyValues, family_tensor};
+pub use function_field::exact_rank_over_functions;
 pub use relations::{exact_rank, structural_rank};
+use relations::{relations, texture_rank};
 
 #[cfg(test)]
 mod tests;

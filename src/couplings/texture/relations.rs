@@ -75,7 +75,23 @@ fn known_value(e: &Entry) -> Option<BigRational> {
     }
 }
 
+/// Exact rank of a texture when every entry is known: over Q, or over `Q(parameter)` when some value is a
+/// rational function ([`super::function_field`]).
+pub(super) fn texture_rank(nr: usize, nc: usize, entries: &[Entry]) -> Option<usize> {
+    if super::function_field::parameter_of(entries).is_some() {
+        return super::function_field::rank(nr, nc, entries);
+    }
+    let m: Option<Vec<Vec<BigRational>>> = (0..nr)
+        .map(|r| (0..nc).map(|c| known_value(&entries[r * nc + c])).collect())
+        .collect();
+    m.map(|m| exact_rank(&m))
+}
+
+/// Exact relations of a texture (over `Q(parameter)` when some value is a rational function).
 pub(super) fn relations(rows: &[String], columns: &[String], entries: &[Entry]) -> Vec<Relation> {
+    if let Some(p) = super::function_field::parameter_of(entries) {
+        return super::function_field::relations(p, rows, columns, entries);
+    }
     let nc = columns.len();
     let val = known_value;
     let mut out = Vec::new();
@@ -95,6 +111,7 @@ pub(super) fn relations(rows: &[String], columns: &[String], entries: &[Entry]) 
                     first: entries[*j].fields.join(" "),
                     second: e.fields.join(" "),
                     factor: f.to_string(),
+                    factor_depends_on_parameter: false,
                 });
             }
             None => firsts.push((abs, i)),
@@ -117,6 +134,7 @@ pub(super) fn relations(rows: &[String], columns: &[String], entries: &[Entry]) 
                     first: labels[i].clone(),
                     second: String::new(),
                     factor: "0".into(),
+                    factor_depends_on_parameter: false,
                 });
                 continue;
             }
@@ -129,6 +147,7 @@ pub(super) fn relations(rows: &[String], columns: &[String], entries: &[Entry]) 
                         first: labels[j].clone(),
                         second: labels[i].clone(),
                         factor: f.to_string(),
+                        factor_depends_on_parameter: false,
                     });
                     break;
                 }

@@ -70,6 +70,7 @@ fn entry(r: usize, c: usize, v: Option<BigRational>) -> Entry {
             None => EntryStatus::ForbiddenByCharge,
         },
         value: v.filter(|x| !x.is_zero()).map(CouplingValue::Rational),
+        rational_function: None,
         types: None,
         singlet_insertions: vec![],
     }
@@ -165,12 +166,103 @@ fn rational_function_value_text() {
         numerator: vec![q(1, 1), q(0, 1), q(-2, 3)],
         denominator: vec![q(0, 1), q(1, 1)],
     };
-    assert_eq!(v.to_string(), "(1 + (-2/3)*psi^2)/((1)*psi)");
-    assert_eq!(
-        serde_json::to_value(&v).unwrap(),
-        "(1 + (-2/3)*psi^2)/((1)*psi)"
-    );
+    assert_eq!(v.to_string(), "(-2/3*psi^2 + 1)/(psi)");
+    assert_eq!(serde_json::to_value(&v).unwrap(), "(-2/3*psi^2 + 1)/(psi)");
     assert!(v.as_rational().is_none());
+    // The entry's JSON carries the text and the coefficients (ascending powers, exact strings).
+    let mut e = entry(0, 0, None);
+    e.status = EntryStatus::Value;
+    e.set_value(v);
+    let j = serde_json::to_value(&e).unwrap();
+    assert_eq!(j["value"], "(-2/3*psi^2 + 1)/(psi)");
+    assert_eq!(j["rational_function"]["parameter"], "psi");
+    assert_eq!(
+        j["rational_function"]["numerator"],
+        serde_json::json!(["1", "0", "-2/3"])
+    );
+    assert_eq!(
+        j["rational_function"]["denominator"],
+        serde_json::json!(["0", "1"])
+    );
+}
+
+fn function_entry(r: usize, c: usize, f: &RationalFunction) -> Entry {
+    let mut e = entry(r, c, Some(q(0, 1)));
+    if !f.is_zero() {
+        e.status = EntryStatus::Value;
+        e.set_value(CouplingValue::from_function("t", f));
+    }
+    e
+}
+
+/// A texture of rational functions with its structure built in: row 1 is `(t + 1)` times row 0, row 2 is
+/// `−2` times row 0, so the rank over Q(t) is 1 although no row is a constant multiple of row 1; entries equal
+/// up to a constant are linked; changing one entry of row 1 raises the rank to 2.
+#[test]
+fn relations_and_rank_over_the_function_field() {
+    let rf = |n: &[i64], d: &[i64]| {
+        RationalFunction::new(UniPoly::from_ints(n), UniPoly::from_ints(d)).unwrap()
+    };
+    let a = rf(&[1], &[-1, 1]); // 1/(t − 1)
+    let b = rf(&[0, 3], &[1]); // 3t
+    let s = rf(&[1, 1], &[1]); // t + 1
+    let m2 = RationalFunction::constant(q(-2, 1));
+    let build = |rows: &[[RationalFunction; 2]]| -> CouplingClass {
+        let entries: Vec<Entry> = rows
+            .iter()
+            .enumerate()
+            .flat_map(|(r, row)| {
+                row.iter()
+                    .enumerate()
+                    .map(move |(c, f)| function_entry(r, c, f))
+            })
+            .collect();
+        let op = Operator {
+            name: "test".into(),
+            arity: 2,
+            slots: vec!["a", "b"],
+            holomorphic_value: true,
+        };
+        let labels = (0..rows.len()).map(|r| format!("r{r}")).collect();
+        finish(
+            &op,
+            None,
+            labels,
+            vec!["c0".into(), "c1".into()],
+            entries,
+            vec![],
+        )
+    };
+    let c = build(&[
+        [a.clone(), b.clone()],
+        [a.mul(&s), b.mul(&s)],
+        [a.mul(&m2), b.mul(&m2)],
+    ]);
+    assert_eq!(c.rank, Some(1));
+    let find = |between: &str, first: &str, second: &str| {
+        c.relations
+            .iter()
+            .find(|r| r.between == between && r.first == first && r.second == second)
+            .cloned()
+    };
+    let r1 = find("rows", "r0", "r1").expect("row 1 = (t + 1) row 0");
+    assert_eq!((r1.kind, r1.factor.as_str()), ("proportional", "t + 1"));
+    assert!(r1.factor_depends_on_parameter);
+    let r2 = find("rows", "r0", "r2").expect("row 2 = −2 row 0");
+    assert_eq!((r2.kind, r2.factor.as_str()), ("proportional", "-2"));
+    assert!(!r2.factor_depends_on_parameter);
+    let e = find("entries", "r0 c1", "r2 c1").expect("−6t = −2 · 3t");
+    assert_eq!((e.kind, e.factor.as_str()), ("proportional", "-2"));
+    assert!(find("entries", "r0 c0", "r0 c1").is_none());
+    let changed = build(&[
+        [a.clone(), b.clone()],
+        [
+            a.mul(&s),
+            b.mul(&s).add(&RationalFunction::constant(q(1, 1))),
+        ],
+        [a.mul(&m2), b.mul(&m2)],
+    ]);
+    assert_eq!(changed.rank, Some(2));
 }
 
 fn demo(name: &str) -> (CohomologyEngine, BundleSum) {
