@@ -3,6 +3,7 @@
 //!
 //! Invariant: nothing here computes mathematics; it converts between text and validated library values.
 
+pub mod dolbeault;
 pub mod export;
 pub mod model;
 pub mod npz;
