@@ -18,6 +18,7 @@
 //! `f64` evaluation of the face forms meant for numerical users and the quadrature tests.
 
 use crate::cohomology::CechTerm;
+use std::ops::{Add, Mul, Sub};
 
 /// The formula, as stated in the export file's `dictionary.partition_of_unity`.
 pub const PARTITION_FORMULA: &str = "for a class with partition_exponents m: on factor i, rho_l = |x_l|^(2 m_i) / kappa_m, kappa_m = sum_l |x_l|^(2 m_i); a face J = (j_0 < ... < j_q) is the (0,q)-form F_J = sum over permutations pi of J of sgn(pi) rho_pi(0) dbar(rho_pi(1)) ^ ... ^ dbar(rho_pi(q)); a lift term (koszul S, faces I_1..I_m, monomial x^e, coefficient c) is c x^e F_I1 ^ ... ^ F_Im (factor order) times e_S; Phi(lift with koszul = []) restricted to X is a d-bar closed representative of the class, and dbar Phi(lift_0) = (-1)^degree sum_j p_j Phi(lift_{j}) on the ambient space";
@@ -36,6 +37,30 @@ pub fn partition_exponents(terms: &[CechTerm], num_factors: usize) -> Vec<u32> {
         }
     }
     m
+}
+
+impl Add for Complex64 {
+    type Output = Self;
+    fn add(self, o: Self) -> Self {
+        Complex64::new(self.re + o.re, self.im + o.im)
+    }
+}
+
+impl Sub for Complex64 {
+    type Output = Self;
+    fn sub(self, o: Self) -> Self {
+        Complex64::new(self.re - o.re, self.im - o.im)
+    }
+}
+
+impl Mul for Complex64 {
+    type Output = Self;
+    fn mul(self, o: Self) -> Self {
+        Complex64::new(
+            self.re * o.re - self.im * o.im,
+            self.re * o.im + self.im * o.re,
+        )
+    }
 }
 
 /// A complex number for the `f64` evaluation (kept local: numerical evaluation only).
@@ -57,18 +82,6 @@ impl Complex64 {
     }
     pub fn norm_sqr(self) -> f64 {
         self.re * self.re + self.im * self.im
-    }
-    pub fn add(self, o: Self) -> Self {
-        Complex64::new(self.re + o.re, self.im + o.im)
-    }
-    pub fn sub(self, o: Self) -> Self {
-        Complex64::new(self.re - o.re, self.im - o.im)
-    }
-    pub fn mul(self, o: Self) -> Self {
-        Complex64::new(
-            self.re * o.re - self.im * o.im,
-            self.re * o.im + self.im * o.re,
-        )
     }
     pub fn scale(self, s: f64) -> Self {
         Complex64::new(self.re * s, self.im * s)
