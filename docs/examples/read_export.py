@@ -50,6 +50,7 @@ class Export:
             self.offsets.append(off)
             off += n + 1
         self.nvars = off
+        self.face_forms = {(f["n"], f["m"], tuple(f["face"])): f["terms"] for f in data.get("face_forms", [])}
         self.polys = [
             [(e, complex(exact(c))) for e, c in zip(p["exponents"], p["coefficients"])]
             for p in data["polynomials"]["equations"]
@@ -131,10 +132,58 @@ class Export:
             out[key] = out.get(key, 0j) + val
         return out
 
+    def face_form_values(self, x, xbar, i, face, m):
+        """The face form F_face^(m) of factor i at (x, xbar) from the file's face_forms table, as
+        {tuple of global dxbar indices: complex coefficient}."""
+        o, n = self.offsets[i], self.dims[i]
+        terms = self.face_forms[(n, m, tuple(face))]
+        kappa = sum((x[o + l] * xbar[o + l]) ** m for l in range(n + 1))
+        out = {}
+        for t in terms:
+            v = complex(exact(t["coefficient"])) * kappa ** t["kappa_power"]
+            for l in range(n + 1):
+                if t["x"][l]:
+                    v *= x[o + l] ** t["x"][l]
+                if t["xbar"][l]:
+                    v *= xbar[o + l] ** t["xbar"][l]
+            key = tuple(o + l for l in t["dxbar"])
+            out[key] = out.get(key, 0j) + v
+        return out
+
+    def partition_form(self, cls, koszul, x, xbar):
+        """Phi of the lift terms of one Koszul set: sum of c x^e F_I1 ^ ... ^ F_Im (factor order), with this
+        class's partition exponents (dictionary.partition_of_unity)."""
+        ms = cls["partition_exponents"]
+        cache = {}
+        out = {}
+        for t in cls["lift"]:
+            if t["koszul"] != koszul:
+                continue
+            v = complex(exact(t["coefficient"]))
+            for i, e in enumerate(t["monomial"]):
+                for l, k in enumerate(e):
+                    if k:
+                        v *= x[self.offsets[i] + l] ** k
+            parts = [((), v)]
+            for i, face in enumerate(t["faces"]):
+                key = (i, tuple(face))
+                if key not in cache:
+                    cache[key] = self.face_form_values(x, xbar, i, face, ms[i])
+                # factors are wedged in order and their indices increase: concatenation is sorted
+                parts = [(k1 + k2, v1 * v2) for k1, v1 in parts for k2, v2 in cache[key].items()]
+            for k, val in parts:
+                out[k] = out.get(k, 0j) + val
+        return out
+
     def check_form(self, form, x):
         """Return (d-bar residual, scale, horizontality residual) of one ambient form at the point x."""
+        return self.check_function(lambda y, ybar: self.form_coefficients(form, y, ybar), x)[:4]
+
+    def check_function(self, coefficients, x):
+        """d-bar by central finite differences and horizontality of the form given by coefficients(x, xbar) at
+        x: returns (residual, scale, horizontality residual, size of the form, the d-bar form)."""
         xbar = [v.conjugate() for v in x]
-        base = self.form_coefficients(form, x, xbar)
+        base = coefficients(x, xbar)
         h = STEP * max(1.0, max(abs(v) for v in x))
         dbar = {}
         scale = 0.0
@@ -143,7 +192,7 @@ class Export:
             def at(delta):
                 y = list(x)
                 y[v] += delta
-                return self.form_coefficients(form, y, [c.conjugate() for c in y])
+                return coefficients(y, [c.conjugate() for c in y])
 
             pu, mu, pw, mw = at(h), at(-h), at(1j * h), at(-1j * h)
             for key in base:
@@ -167,7 +216,32 @@ class Export:
                 contraction[(i, rest)] = c + (-1) ** pos * xbar[k] * val
         bscale = max((abs(v) for v in base.values()), default=0.0)
         horiz = max((abs(c) for c in contraction.values()), default=0.0)
-        return residual, scale, horiz, bscale
+        return residual, scale, horiz, bscale, dbar
+
+    def check_partition_class(self, cls, x, rng):
+        """The partition-of-unity form Phi(lift_0) of a type >= 1 class: at the point x of X its d-bar vanishes
+        (relative to the size of its derivative terms) and it is horizontal; as a control, at a random point of
+        the ambient space off X, d-bar Phi(lift_0) = (-1)^degree sum_j p_j Phi(lift_{[j]}). Returns
+        (relative residual on X, relative mismatch off X, horizontality ok)."""
+        form = lambda y, ybar: self.partition_form(cls, [], y, ybar)
+        residual, scale, horiz, bscale, _ = self.check_function(form, x)
+        on_x = residual / scale if scale > 0 else residual
+        horizontal = horiz <= 1e-9 * max(bscale, 1e-300) * max(abs(v) for v in x)
+        y = [complex(rng.gauss(0, 1), rng.gauss(0, 1)) for _ in range(self.nvars)]
+        for o in self.offsets:
+            y[o] = 1 + 0j
+        _, yscale, _, _, dbar = self.check_function(form, y)
+        ybar = [v.conjugate() for v in y]
+        sign = -1 if cls["degree"] % 2 else 1
+        rhs = {}
+        for j in range(len(self.polys)):
+            pj = self.eval_poly(j, y)
+            for key, val in self.partition_form(cls, [j + 1], y, ybar).items():
+                rhs[key] = rhs.get(key, 0j) + sign * pj * val
+        keys = set(dbar) | set(rhs)
+        mismatch = max((abs(dbar.get(k, 0j) - rhs.get(k, 0j)) for k in keys), default=0.0)
+        size = max([abs(v) for v in rhs.values()] + [yscale, 1e-300])
+        return on_x, mismatch / size, horizontal
 
 
 def solve(a, b):
@@ -236,6 +310,23 @@ def main(argv):
                         print(f"  {wedge}: {val:.6g}")
     print(f"checked {forms_checked} ambient forms at {points} point(s): worst relative dbar residual "
           f"{worst:.2e} (tolerance {TOL:g}); {failures} failure(s)")
+    partition = [(label, i, c) for label, i, c in classes if c["on_x"] == "partition_of_unity"]
+    if not check_all:
+        partition = [(label, i, c) for m in exp.data["multiplets"] for i, c in enumerate(m["classes"])
+                     if c["on_x"] == "partition_of_unity"][:1]
+    checked, worst_on, worst_off = 0, 0.0, 0.0
+    for p in range(points):
+        x = exp.point_on_x(rng)
+        for label, i, c in partition:
+            on_x, off_x, horizontal = exp.check_partition_class(c, x, rng)
+            checked += 1
+            worst_on, worst_off = max(worst_on, on_x), max(worst_off, off_x)
+            if on_x > TOL or off_x > TOL or not horizontal:
+                failures += 1
+                print(f"FAIL {label} class {i} (partition of unity): dbar on X {on_x:.3e}, "
+                      f"off X mismatch with the Koszul term {off_x:.3e}, horizontal {horizontal}")
+    print(f"checked {checked} partition-of-unity forms on X: worst relative dbar residual {worst_on:.2e}, "
+          f"worst off-X mismatch {worst_off:.2e} (tolerance {TOL:g})")
     return 1 if failures else 0
 
 

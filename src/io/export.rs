@@ -13,6 +13,8 @@
 //! `ω̄ = Σ_l (−1)^l x̄_l dx̄_0 ∧ … ∧ \widehat{dx̄_l} ∧ … ∧ dx̄_n` and `c_a = (n+k)! / (n! · a_0! ⋯ a_n!)`. On a product the
 //! form is the wedge product of the factor forms in factor order.
 
+use super::dolbeault::{PARTITION_FORMULA, partition_exponents};
+use super::face_forms::{ExportFaceForm, face_form_table};
 use super::npz::NpyArray;
 use crate::analysis::{Favourability, ModelAnalysis};
 use crate::bundle::spectrum::Spectrum;
@@ -114,9 +116,14 @@ pub struct ExportClass {
     pub bott_terms: Vec<BottTerm>,
     /// The Dolbeault form of each Bott term, same order as `bott_terms`.
     pub ambient_forms: Vec<AmbientForm>,
-    /// `"restriction"` (type 0: the sum of `ambient_forms` restricted to X is a representative) or
-    /// `"needs_primitives"` (type ≥ 1: see docs/representatives.md; the primitives are not exported).
+    /// How the class is represented on X (docs/representatives.md, "Types"): `"restriction"` (type 0: the sum
+    /// of `ambient_forms` restricted to X is a representative), `"partition_of_unity"` (type ≥ 1: the form
+    /// `Φ(lift with koszul = [])` built from `face_forms` with this class's `partition_exponents`, restricted to
+    /// X, is a representative) or `"lift_truncated"` (type ≥ 1 with `lift_truncated`: that form is incomplete).
     pub on_x: String,
+    /// The exponents `m_i` (one per factor) of the partition of unity `ρ_l = |x_l|^{2m_i}/κ_{m_i}` that makes
+    /// `Φ(lift)` smooth: per factor the largest pole order of the lift, at least 1.
+    pub partition_exponents: Vec<u32>,
     /// The lifted Čech–Koszul cocycle.
     pub lift: Vec<crate::cohomology::CechTerm>,
     pub lift_truncated: bool,
@@ -155,6 +162,9 @@ pub struct Export {
     pub multiplets: Vec<ExportMultiplet>,
     /// The dictionary conventions in words (normalisation, sign conventions, what is and is not fixed).
     pub dictionary: Dictionary,
+    /// The face forms `F_J^{(m)}` (exact terms) of every face used by a `"partition_of_unity"` class's lift
+    /// ([`super::face_forms`]): one row per distinct `(n, m, face)`.
+    pub face_forms: Vec<ExportFaceForm>,
     /// The coupling textures ([`crate::couplings::couplings`]): statuses, exact values, ranks, relations. Entry
     /// fields `"<label>#<n>"` name `multiplets[label].classes[n−1]` (the same basis). Absent when refused.
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -171,6 +181,8 @@ pub struct Dictionary {
     pub product: String,
     pub normalisation: String,
     pub higher_types: String,
+    /// The partition-of-unity form `Φ` of a lifted cocycle (every type).
+    pub partition_of_unity: String,
 }
 
 impl Dictionary {
@@ -179,7 +191,8 @@ impl Dictionary {
             top_factor: "x^(-1-a) on P^n (|a| = k) -> c_a xbar^a omegabar / kappa^(n+1+k), omegabar = sum_l (-1)^l xbar_l dxbar_0..^l..dxbar_n, c_a = (n+k)!/(n! a!)".into(),
             product: "wedge product of the factor forms in factor order; the Bott coefficient multiplies the product".into(),
             normalisation: "c_a fixes the ratios within one factor (compatible with the residue pairing against H^0(O(k))); the Cech-Dolbeault comparison multiplies every class of a Bott group by one further non-zero constant depending only on the group's factor kinds, set to 1 here".into(),
-            higher_types: "type 0: the sum of ambient_forms restricted to X represents the class; type >= 1: the ambient forms of the leading Koszul degree are d-bar closed on A, and the representative on X is obtained from them by d-bar primitives (docs/representatives.md), which this version does not export".into(),
+            higher_types: "type 0: the sum of ambient_forms restricted to X represents the class; type >= 1: the ambient forms of the leading Koszul degree are d-bar closed on A, and the representative on X is Phi(lift with koszul = []) restricted to X (on_x = partition_of_unity; dictionary.partition_of_unity, face_forms)".into(),
+            partition_of_unity: PARTITION_FORMULA.into(),
         }
     }
 }
@@ -265,14 +278,16 @@ fn export_class(c: ClassRepresentative, k: &[i64], equations: &[Vec<u32>]) -> Ex
         .iter()
         .map(|t| ambient_form(t, k, equations))
         .collect();
+    let on_x = match (c.class_type, c.lift_truncated) {
+        (0, _) => "restriction",
+        (_, false) => "partition_of_unity",
+        (_, true) => "lift_truncated",
+    };
     ExportClass {
         degree: c.degree,
         class_type: c.class_type,
-        on_x: if c.class_type == 0 {
-            "restriction".into()
-        } else {
-            "needs_primitives".into()
-        },
+        on_x: on_x.into(),
+        partition_exponents: partition_exponents(&c.lift, k.len()),
         ambient_forms,
         bott_terms: c.bott_terms,
         lift: c.lift,
@@ -347,6 +362,19 @@ pub fn build_export(
             dual_classes,
         });
     }
+    let dims = config.dims();
+    let face_forms = face_form_table(
+        dims,
+        multiplets
+            .iter()
+            .flat_map(|m| m.classes.iter().chain(m.dual_classes.iter().flatten()))
+            .filter(|c| c.on_x == "partition_of_unity")
+            .flat_map(|c| {
+                c.lift
+                    .iter()
+                    .map(|t| (t.faces.as_slice(), c.partition_exponents.as_slice()))
+            }),
+    );
     let kahler_point = match (&analysis.slope_zero, &analysis.geometry.triple) {
         (
             SlopeZero::Exists(crate::slope::ExistsCertificate::RationalPoint { point }),
@@ -389,6 +417,7 @@ pub fn build_export(
         spectrum: analysis.spectrum.clone(),
         multiplets,
         dictionary: Dictionary::standard(),
+        face_forms,
         couplings,
         couplings_error,
     })

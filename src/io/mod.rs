@@ -5,6 +5,7 @@
 
 pub mod dolbeault;
 pub mod export;
+pub mod face_forms;
 pub mod model;
 pub mod npz;
 
