@@ -337,6 +337,16 @@ fn python_reader_checks_every_form_is_dbar_closed() {
             .flat_map(|m| m["classes"].as_array().unwrap())
             .map(|c| c["ambient_forms"].as_array().unwrap().len())
             .sum();
+        // type >= 1 classes carry the partition-of-unity form (docs/representatives.md)
+        let partition: usize = v["multiplets"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .flat_map(|m| m["classes"].as_array().unwrap())
+            .filter(|c| c["on_x"] == "partition_of_unity")
+            .count();
+        assert!(partition > 0, "{model}: no partition-of-unity class");
+        assert!(!v["face_forms"].as_array().unwrap().is_empty());
         let (code, out) = run_reader(&path, &["--all", "--points", points]);
         assert_eq!(code, 0, "{out}");
         let p: usize = points.parse().unwrap();
@@ -344,6 +354,49 @@ fn python_reader_checks_every_form_is_dbar_closed() {
             out.contains(&format!("checked {} ambient forms", forms * p)),
             "{out}"
         );
+        assert!(
+            out.contains(&format!(
+                "checked {} partition-of-unity forms on X",
+                partition * p
+            )),
+            "{out}"
+        );
+        // the partition-of-unity check can fail: a changed lift term breaks dbar-closedness on X, and a changed
+        // face form breaks the identity with the Koszul term off X
+        let mut bad_lift = v.clone();
+        let mut bad_face = v.clone();
+        for m in bad_lift["multiplets"].as_array_mut().unwrap() {
+            for c in m["classes"].as_array_mut().unwrap() {
+                if c["on_x"] == "partition_of_unity" {
+                    let t = c["lift"]
+                        .as_array_mut()
+                        .unwrap()
+                        .iter_mut()
+                        .find(|t| t["koszul"].as_array().unwrap().is_empty())
+                        .unwrap();
+                    let doubled = rat(&t["coefficient"]) * BigRational::from_integer(2.into());
+                    t["coefficient"] = doubled.to_string().into();
+                }
+            }
+        }
+        for f in bad_face["face_forms"].as_array_mut().unwrap() {
+            if f["face"].as_array().unwrap().len() > 1 {
+                let t = &mut f["terms"][0];
+                t["coefficient"] = (rat(&t["coefficient"]) + BigRational::one())
+                    .to_string()
+                    .into();
+            }
+        }
+        for (bad, name) in [(bad_lift, "bad-lift.json"), (bad_face, "bad-face.json")] {
+            let bad_path = path.with_file_name(name);
+            std::fs::write(&bad_path, serde_json::to_string(&bad).unwrap()).unwrap();
+            let (code, out) = run_reader(&bad_path, &[]);
+            assert_eq!(code, 1, "{name}: {out}");
+            assert!(
+                out.contains("FAIL") && out.contains("partition of unity"),
+                "{out}"
+            );
+        }
         // the one-class mode prints coefficient values
         let (code, out) = run_reader(&path, &[]);
         assert_eq!(code, 0, "{out}");
