@@ -461,7 +461,15 @@ assert ex.shape[0] == fl.shape[0] == st.shape[0] > 0 and ex.shape[1] == len(d["v
 for f, s in zip(fl, st):
     assert abs(f - float(Fraction(str(s)))) <= 1e-12 * abs(f)
 assert d["bott_exponents"].shape[0] == d["bott_coefficients"].shape[0] == d["bott_terms"].shape[0]
-print("numpy ok", ex.shape, d["bott_exponents"].shape)
+lt, le, lc, ls = d["lift_terms"], d["lift_exponents"], d["lift_coefficients"], d["lift_coefficients_exact"]
+assert lt.shape[0] == le.shape[0] == lc.shape[0] == ls.shape[0] > 0 and lt.shape[1] == 3 + len(d["ambient"])
+for f, s in zip(lc, ls):
+    assert abs(f - float(Fraction(str(s)))) <= 1e-12 * abs(f)
+assert d["class_on_x"].shape[0] == d["classes"].shape[0] == d["class_partition_exponents"].shape[0]
+assert (d["class_partition_exponents"] >= 1).all()
+ft = d["face_form_terms"]
+assert ft.shape[0] == d["face_form_x"].shape[0] == d["face_form_coefficients_exact"].shape[0] > 0
+print("numpy ok", ex.shape, d["bott_exponents"].shape, lt.shape, ft.shape)
 "#;
     let out = Command::new("python3")
         .args(["-c", script, path.to_str().unwrap()])

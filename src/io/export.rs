@@ -549,7 +549,91 @@ impl Export {
             },
         ));
         out.push(("bott_coefficients_exact".into(), NpyArray::Str(exact)));
+        self.push_partition_arrays(&mut out);
         out
+    }
+
+    /// The partition-of-unity data as arrays: per class its `on_x` and `partition_exponents`, every lift term
+    /// (Koszul and face bitmasks, Laurent exponents, coefficients) and the `face_forms` table flattened to terms.
+    fn push_partition_arrays(&self, out: &mut Vec<(String, NpyArray)>) {
+        let nvars = self.configuration.variables.len();
+        let m = self.configuration.ambient.len();
+        let mask =
+            |set: &[usize], shift: usize| -> i64 { set.iter().map(|&j| 1i64 << (j - shift)).sum() };
+        let (mut on_x, mut exps) = (Vec::new(), Vec::new());
+        let (mut rows, mut monomials, mut coeffs, mut exact) =
+            (Vec::new(), Vec::new(), Vec::new(), Vec::new());
+        for (mi, mult) in self.multiplets.iter().enumerate() {
+            for (ci, class) in mult.classes.iter().enumerate() {
+                on_x.push(class.on_x.clone());
+                exps.push(
+                    class
+                        .partition_exponents
+                        .iter()
+                        .map(|&e| e as i64)
+                        .collect(),
+                );
+                for t in &class.lift {
+                    let mut row = vec![mi as i64, ci as i64, mask(&t.koszul, 1)];
+                    row.extend(t.faces.iter().map(|f| mask(f, 0)));
+                    rows.push(row);
+                    monomials.push(t.monomial.iter().flatten().map(|&x| x as i64).collect());
+                    coeffs.push(to_f64(&t.coefficient));
+                    exact.push(t.coefficient.clone());
+                }
+            }
+        }
+        out.push(("class_on_x".into(), NpyArray::Str(on_x)));
+        out.push(("class_partition_exponents".into(), i64_table(&exps, m)));
+        out.push(("lift_terms".into(), i64_table(&rows, 3 + m)));
+        out.push(("lift_exponents".into(), i64_table(&monomials, nvars)));
+        out.push((
+            "lift_coefficients".into(),
+            NpyArray::F64 {
+                shape: vec![coeffs.len()],
+                data: coeffs,
+            },
+        ));
+        out.push(("lift_coefficients_exact".into(), NpyArray::Str(exact)));
+        let width = self
+            .configuration
+            .ambient
+            .iter()
+            .max()
+            .map_or(1, |&n| n + 1);
+        let pad = |v: &[u32]| -> Vec<i64> {
+            let mut r: Vec<i64> = v.iter().map(|&x| x as i64).collect();
+            r.resize(width, 0);
+            r
+        };
+        let (mut frows, mut fx, mut fxbar, mut fc, mut fexact) =
+            (Vec::new(), Vec::new(), Vec::new(), Vec::new(), Vec::new());
+        for f in &self.face_forms {
+            for t in &f.terms {
+                frows.push(vec![
+                    f.n as i64,
+                    f.m as i64,
+                    mask(&f.face, 0),
+                    t.kappa_power,
+                    mask(&t.dxbar, 0),
+                ]);
+                fx.push(pad(&t.x));
+                fxbar.push(pad(&t.xbar));
+                fc.push(to_f64(&t.coefficient));
+                fexact.push(t.coefficient.clone());
+            }
+        }
+        out.push(("face_form_terms".into(), i64_table(&frows, 5)));
+        out.push(("face_form_x".into(), i64_table(&fx, width)));
+        out.push(("face_form_xbar".into(), i64_table(&fxbar, width)));
+        out.push((
+            "face_form_coefficients".into(),
+            NpyArray::F64 {
+                shape: vec![fc.len()],
+                data: fc,
+            },
+        ));
+        out.push(("face_form_coefficients_exact".into(), NpyArray::Str(fexact)));
     }
 }
 
