@@ -119,7 +119,7 @@ pub fn report_section(model: &Path, a: &analysis::ModelAnalysis) -> String {
     let present: Vec<_> = a.spectrum.present().collect();
     let classes: u64 = present.iter().map(|m| m.count).sum();
     format!(
-        "\n== Export for numerical solvers ==\n  sheafwright export {} -o FILE.json   (or --format npz; schema {} version {})\n  holds: configuration, polynomials used (exact), geometry, certificates, spectrum, and for {} multiplets\n  a basis of {} classes of H^1 with Bott terms, ambient Dolbeault forms and lifted Čech–Koszul cocycles\n  (docs/export-schema.md, docs/representatives.md)\n",
+        "\n== Export for numerical solvers ==\n  sheafwright export {} -o FILE.json   (or --format npz; schema {} version {})\n  holds: configuration, polynomials used (exact), geometry, certificates, spectrum, and for {} multiplets\n  a basis of {} classes of H^1 with Bott terms, ambient Dolbeault forms and lifted Čech–Koszul cocycles,\n  the partition-of-unity form of every type >= 1 class (face_forms), and the coupling textures\n  (docs/export-schema.md, docs/representatives.md)\n",
         model.display(),
         sheafwright::io::export::EXPORT_SCHEMA,
         sheafwright::io::export::EXPORT_VERSION,
