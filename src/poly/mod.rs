@@ -118,6 +118,19 @@ impl VariableLayout {
         let i = self.offsets.partition_point(|&o| o <= v) - 1;
         format!("x{}_{}", i + 1, v - self.offsets[i])
     }
+    /// Index of the variable `x{factor}_{coord}` (factor 1-based, coordinate 0-based), or the error naming
+    /// the missing factor or coordinate.
+    pub(crate) fn checked_variable(&self, factor: usize, coord: usize) -> Result<usize, PolyError> {
+        let m = self.dims.len();
+        if factor == 0 || factor > m {
+            return Err(PolyError::NoSuchFactor { factor, coord, m });
+        }
+        let n = self.dims[factor - 1];
+        if coord > n {
+            return Err(PolyError::NoSuchVariable { factor, coord, n });
+        }
+        Ok(self.offsets[factor - 1] + coord)
+    }
 }
 
 /// A polynomial with rational coefficients (see the module invariant).
@@ -204,7 +217,7 @@ impl Polynomial {
             let got = layout.multidegree(e);
             if got != expected {
                 return Err(PolyError::WrongDegree {
-                    term: self.monomial_text(e, layout),
+                    term: monomial_text(e, layout),
                     got,
                     expected: expected.to_vec(),
                 });
@@ -220,26 +233,6 @@ impl Polynomial {
             }
         }
         Ok(())
-    }
-
-    fn monomial_text(&self, e: &[u32], layout: &VariableLayout) -> String {
-        let parts: Vec<String> = e
-            .iter()
-            .enumerate()
-            .filter(|(_, p)| **p > 0)
-            .map(|(v, &p)| {
-                if p == 1 {
-                    layout.var_name(v)
-                } else {
-                    format!("{}^{}", layout.var_name(v), p)
-                }
-            })
-            .collect();
-        if parts.is_empty() {
-            "1".into()
-        } else {
-            parts.join("*")
-        }
     }
 
     /// Render in the text syntax (parses back to the same polynomial).
@@ -258,7 +251,7 @@ impl Polynomial {
             } else {
                 out.push_str(if neg { " - " } else { " + " });
             }
-            let mono = self.monomial_text(e, layout);
+            let mono = monomial_text(e, layout);
             if abs.is_one() {
                 out.push_str(&mono);
             } else if mono == "1" {
@@ -330,6 +323,35 @@ pub fn compositions(total: u32, parts: usize) -> Vec<Vec<u32>> {
     out
 }
 
+/// One monomial in the text syntax (`x1_0^2*x2_1`; `1` for the empty monomial), shared by the renderers of
+/// this module and of [`parametric`].
+pub(crate) fn monomial_text(e: &[u32], layout: &VariableLayout) -> String {
+    let parts: Vec<String> = e
+        .iter()
+        .enumerate()
+        .filter(|(_, p)| **p > 0)
+        .map(|(v, &p)| {
+            if p == 1 {
+                layout.var_name(v)
+            } else {
+                format!("{}^{}", layout.var_name(v), p)
+            }
+        })
+        .collect();
+    if parts.is_empty() {
+        "1".into()
+    } else {
+        parts.join("*")
+    }
+}
+
+/// The input with whitespace dropped, as (byte offset, character) pairs: what the parsers read.
+pub(crate) fn significant_chars(text: &str) -> Vec<(usize, char)> {
+    text.char_indices()
+        .filter(|(_, c)| !c.is_whitespace())
+        .collect()
+}
+
 /// The character cursor shared by the polynomial parsers of this module and of [`parametric`]: positions in
 /// errors are 1-based character offsets of the input.
 pub(crate) trait CharCursor {
@@ -383,6 +405,75 @@ pub(crate) trait CharCursor {
             _ => self.err(format!("{what} {v} is too large (limit {limit})")),
         }
     }
+
+    /// A coefficient `INTEGER ['/' INTEGER]`; a zero denominator is an error.
+    fn rational(&mut self) -> Result<BigRational, PolyError> {
+        let num = self.integer()?;
+        let mut den = BigInt::one();
+        if self.peek() == Some('/') {
+            *self.cursor_mut() += 1;
+            den = self.integer()?;
+            if den.is_zero() {
+                return self.err("division by zero in a coefficient");
+            }
+        }
+        Ok(BigRational::new(num, den))
+    }
+
+    /// An optional `'^' INTEGER` (at most `limit`); 1 when absent.
+    fn optional_power(&mut self, limit: u32) -> Result<u32, PolyError> {
+        if self.peek() == Some('^') {
+            *self.cursor_mut() += 1;
+            Ok(self.small("exponent", limit as u64)? as u32)
+        } else {
+            Ok(1)
+        }
+    }
+
+    /// Multiply the monomial `e` by variable `v` to the power `p`, refusing exponents above
+    /// [`MAX_EXPONENT`].
+    fn multiply_variable(&self, e: &mut [u32], v: usize, p: u32) -> Result<(), PolyError> {
+        e[v] = e[v].saturating_add(p);
+        if e[v] > MAX_EXPONENT {
+            return self.err(format!("exponent above {MAX_EXPONENT}"));
+        }
+        Ok(())
+    }
+
+    /// `['+' | '-'] X (('+' | '-') X)*`, each `X` read by `each` (told whether its sign is negative), up
+    /// to the end or the character `stop`.
+    fn signed_sum<T>(
+        &mut self,
+        mut each: impl FnMut(&mut Self, bool) -> Result<T, PolyError>,
+        stop: Option<char>,
+    ) -> Result<Vec<T>, PolyError>
+    where
+        Self: Sized,
+    {
+        let mut out = Vec::new();
+        let mut first = true;
+        loop {
+            let negative = match self.peek() {
+                Some('+') => {
+                    *self.cursor_mut() += 1;
+                    false
+                }
+                Some('-') => {
+                    *self.cursor_mut() += 1;
+                    true
+                }
+                _ if first => false,
+                None => break,
+                Some(c) if Some(c) == stop => break,
+                Some(c) => {
+                    return self.err(format!("expected '+' or '-' between terms, found '{c}'"));
+                }
+            };
+            first = false;
+            out.push(each(self, negative)?);
+        }
+        Ok(out)
+    }
 }
 
 impl CharCursor for Parser<'_> {
@@ -403,10 +494,7 @@ struct Parser<'a> {
 impl<'a> Parser<'a> {
     fn new(text: &str, layout: &'a VariableLayout) -> Self {
         Parser {
-            chars: text
-                .char_indices()
-                .filter(|(_, c)| !c.is_whitespace())
-                .collect(),
+            chars: significant_chars(text),
             pos: 0,
             layout,
         }
@@ -417,24 +505,15 @@ impl<'a> Parser<'a> {
         if self.chars.is_empty() {
             return self.err("empty polynomial");
         }
-        let mut first = true;
-        while self.pos < self.chars.len() || first {
-            let mut sign = BigRational::one();
-            match self.peek() {
-                Some('+') => self.pos += 1,
-                Some('-') => {
-                    sign = -sign;
-                    self.pos += 1
-                }
-                _ if first => {}
-                Some(c) => {
-                    return self.err(format!("expected '+' or '-' between terms, found '{c}'"));
-                }
-                None => break,
-            }
-            first = false;
-            let (e, c) = self.term()?;
-            p.add_term(e, sign * c);
+        let terms = self.signed_sum(
+            |s, negative| {
+                let (e, c) = s.term()?;
+                Ok((e, if negative { -c } else { c }))
+            },
+            None,
+        )?;
+        for (e, c) in terms {
+            p.add_term(e, c);
         }
         Ok(p)
     }
@@ -443,16 +522,7 @@ impl<'a> Parser<'a> {
         let mut coeff = BigRational::one();
         let mut e = vec![0u32; self.layout.nvars()];
         if matches!(self.peek(), Some(c) if c.is_ascii_digit()) {
-            let num = self.integer()?;
-            let mut den = BigInt::one();
-            if self.peek() == Some('/') {
-                self.pos += 1;
-                den = self.integer()?;
-                if den.is_zero() {
-                    return self.err("division by zero in a coefficient");
-                }
-            }
-            coeff = BigRational::new(num, den);
+            coeff = self.rational()?;
             match self.peek() {
                 Some('*') => self.pos += 1,
                 Some('x') => {} // "3 x1_0": juxtaposition means multiplication
@@ -471,24 +541,9 @@ impl<'a> Parser<'a> {
             }
             self.pos += 1;
             let coord = self.small("coordinate index", 1 << 20)? as usize;
-            let m = self.layout.dims().len();
-            if factor == 0 || factor > m {
-                return Err(PolyError::NoSuchFactor { factor, coord, m });
-            }
-            let n = self.layout.dims()[factor - 1];
-            if coord > n {
-                return Err(PolyError::NoSuchVariable { factor, coord, n });
-            }
-            let mut power = 1u32;
-            if self.peek() == Some('^') {
-                self.pos += 1;
-                power = self.small("exponent", MAX_EXPONENT as u64)? as u32;
-            }
-            let v = self.layout.offset(factor - 1) + coord;
-            e[v] = e[v].saturating_add(power);
-            if e[v] > MAX_EXPONENT {
-                return self.err(format!("exponent above {MAX_EXPONENT}"));
-            }
+            let v = self.layout.checked_variable(factor, coord)?;
+            let power = self.optional_power(MAX_EXPONENT)?;
+            self.multiply_variable(&mut e, v, power)?;
             if self.peek() == Some('*') {
                 self.pos += 1;
                 continue;

@@ -15,9 +15,11 @@
 //!
 //! Invariant: no stored coefficient polynomial is zero; every exponent vector has length `Σ (n_i + 1)`.
 
-use super::{CharCursor, MAX_EXPONENT, PolyError, Polynomial, VariableLayout};
+use super::{
+    CharCursor, MAX_EXPONENT, PolyError, Polynomial, VariableLayout, monomial_text,
+    significant_chars,
+};
 use crate::arith::UniPoly;
-use num_bigint::BigInt;
 use num_rational::BigRational;
 use num_traits::{One, Zero};
 use std::collections::BTreeMap;
@@ -83,10 +85,7 @@ impl ParametricPolynomial {
             "ParametricPolynomial::parse: invalid parameter name {parameter:?}"
         );
         let terms = PParser {
-            chars: text
-                .char_indices()
-                .filter(|(_, c)| !c.is_whitespace())
-                .collect(),
+            chars: significant_chars(text),
             pos: 0,
             layout,
             parameter,
@@ -141,10 +140,8 @@ impl ParametricPolynomial {
         for e in self.terms.keys() {
             let got = layout.multidegree(e);
             if got != expected {
-                let mut one = Polynomial::zero(self.nvars);
-                one.add_term(e.clone(), BigRational::one());
                 return Err(PolyError::WrongDegree {
-                    term: one.to_text(layout),
+                    term: monomial_text(e, layout),
                     got,
                     expected: expected.to_vec(),
                 });
@@ -176,15 +173,6 @@ impl CharCursor for PParser<'_> {
 }
 
 impl PParser<'_> {
-    fn power(&mut self, limit: u32) -> Result<u32, PolyError> {
-        if self.peek() == Some('^') {
-            self.pos += 1;
-            Ok(self.small("exponent", limit as u64)? as u32)
-        } else {
-            Ok(1)
-        }
-    }
-
     fn name(&mut self) -> String {
         let start = self.pos;
         while matches!(self.peek(), Some(c) if c.is_ascii_alphanumeric() || c == '_') {
@@ -194,28 +182,15 @@ impl PParser<'_> {
     }
 
     fn parameter_power(&mut self) -> Result<UniPoly, PolyError> {
-        let d = self.power(MAX_PARAMETER_DEGREE)? as usize;
+        let d = self.optional_power(MAX_PARAMETER_DEGREE)? as usize;
         let mut c = vec![BigRational::zero(); d + 1];
         c[d] = BigRational::one();
         Ok(UniPoly::new(c))
     }
 
-    fn number(&mut self) -> Result<UniPoly, PolyError> {
-        let num = self.integer()?;
-        let mut den = BigInt::one();
-        if self.peek() == Some('/') {
-            self.pos += 1;
-            den = self.integer()?;
-            if den.is_zero() {
-                return self.err("division by zero in a coefficient");
-            }
-        }
-        Ok(UniPoly::constant(BigRational::new(num, den)))
-    }
-
     fn item(&mut self, scalar_only: bool) -> Result<Item, PolyError> {
         match self.peek() {
-            Some(c) if c.is_ascii_digit() => Ok(Item::Scalar(self.number()?)),
+            Some(c) if c.is_ascii_digit() => Ok(Item::Scalar(UniPoly::constant(self.rational()?))),
             Some('(') => {
                 self.pos += 1;
                 let v = self.pexpr()?;
@@ -248,16 +223,9 @@ impl PParser<'_> {
                     self.pos = start;
                     return self.err("coordinate index too large");
                 };
-                let m = self.layout.dims().len();
-                if factor == 0 || factor > m {
-                    return Err(PolyError::NoSuchFactor { factor, coord, m });
-                }
-                let n = self.layout.dims()[factor - 1];
-                if coord > n {
-                    return Err(PolyError::NoSuchVariable { factor, coord, n });
-                }
-                let p = self.power(MAX_EXPONENT)?;
-                Ok(Item::Variable(self.layout.offset(factor - 1) + coord, p))
+                let v = self.layout.checked_variable(factor, coord)?;
+                let p = self.optional_power(MAX_EXPONENT)?;
+                Ok(Item::Variable(v, p))
             }
             Some(c) => self.err(format!("unexpected '{c}'")),
             None => self.err("unexpected end"),
@@ -276,12 +244,7 @@ impl PParser<'_> {
                         return self.err(format!("parameter degree above {MAX_PARAMETER_DEGREE}"));
                     }
                 }
-                Item::Variable(v, p) => {
-                    e[v] = e[v].saturating_add(p);
-                    if e[v] > MAX_EXPONENT {
-                        return self.err(format!("exponent above {MAX_EXPONENT}"));
-                    }
-                }
+                Item::Variable(v, p) => self.multiply_variable(&mut e, v, p)?,
             }
             match self.peek() {
                 Some('*') => self.pos += 1,
@@ -289,36 +252,6 @@ impl PParser<'_> {
                 _ => return Ok((e, c)),
             }
         }
-    }
-
-    fn signed_sum<T>(
-        &mut self,
-        mut each: impl FnMut(&mut Self, bool) -> Result<T, PolyError>,
-        stop: Option<char>,
-    ) -> Result<Vec<T>, PolyError> {
-        let mut out = Vec::new();
-        let mut first = true;
-        loop {
-            let negative = match self.peek() {
-                Some('+') => {
-                    self.pos += 1;
-                    false
-                }
-                Some('-') => {
-                    self.pos += 1;
-                    true
-                }
-                _ if first => false,
-                None => break,
-                Some(c) if Some(c) == stop => break,
-                Some(c) => {
-                    return self.err(format!("expected '+' or '-' between terms, found '{c}'"));
-                }
-            };
-            first = false;
-            out.push(each(self, negative)?);
-        }
-        Ok(out)
     }
 
     fn pexpr(&mut self) -> Result<UniPoly, PolyError> {

@@ -5,13 +5,15 @@
 //! (exact: each step is a field operation, and a pivot is taken only when it is not the zero function). This is
 //! the rank of the generic member; at finitely many values of `t` the rank of the specialised matrix is smaller.
 //!
-//! Relations: entries proportional by a rational constant (equal, opposite or `proportional`, each linked to the
-//! first entry with the same function up to a constant factor), and rows/columns that are zero, or proportional
-//! by a rational function (`factor_depends_on_parameter`) or a rational constant.
+//! Relations: [`FunctionField`] is the field `Q(t)` for the generic search of [`super::relations`]: entries
+//! proportional by a rational constant (equal, opposite or `proportional`, each linked to the first entry with
+//! the same function up to a constant factor), and rows/columns that are zero, or proportional by a rational
+//! function (`factor_depends_on_parameter`) or a rational constant.
 //!
 //! Invariant: every relation is exact (`second = factor · first` in `Q(t)`).
 
-use super::{Entry, Relation};
+use super::Entry;
+use super::relations::{RelationField, constant_kind};
 use crate::arith::RationalFunction;
 use num_rational::BigRational;
 use num_traits::{One, Zero};
@@ -45,17 +47,6 @@ pub fn exact_rank_over_functions(m: &[Vec<RationalFunction>]) -> usize {
     rank
 }
 
-/// The known value of an entry as a function (zero when known and without value), `None` when unknown.
-fn known_function(e: &Entry) -> Option<RationalFunction> {
-    if !e.status.is_known() {
-        return None;
-    }
-    match &e.value {
-        None => Some(RationalFunction::constant(BigRational::zero())),
-        Some(v) => v.to_function(),
-    }
-}
-
 /// The parameter name of the first rational-function value of `entries`.
 pub(super) fn parameter_of(entries: &[Entry]) -> Option<&str> {
     entries.iter().find_map(|e| match &e.value {
@@ -64,127 +55,62 @@ pub(super) fn parameter_of(entries: &[Entry]) -> Option<&str> {
     })
 }
 
-/// Rank over `Q(t)` when every entry is known.
-pub(super) fn rank(nr: usize, nc: usize, entries: &[Entry]) -> Option<usize> {
-    let m: Option<Vec<Vec<RationalFunction>>> = (0..nr)
-        .map(|r| {
-            (0..nc)
-                .map(|c| known_function(&entries[r * nc + c]))
-                .collect()
-        })
-        .collect();
-    m.map(|m| exact_rank_over_functions(&m))
+/// The field `Q(parameter)` for the generic relation search of [`super::relations`]; the name is used to write
+/// factors that depend on the parameter.
+pub(super) struct FunctionField<'a> {
+    parameter: &'a str,
 }
 
-/// The function divided by its numerator's leading coefficient (the class of `f` up to a constant factor),
-/// and that coefficient.
-fn up_to_constant(f: &RationalFunction) -> (RationalFunction, BigRational) {
-    let lead = f.numerator().leading();
-    let unit = RationalFunction::new(
-        f.numerator().scale(&(BigRational::one() / &lead)),
-        f.denominator().clone(),
-    )
-    .expect("a monic denominator is non-zero");
-    (unit, lead)
-}
-
-fn constant_kind(f: &BigRational) -> &'static str {
-    if f.is_one() {
-        "equal"
-    } else if f == &-BigRational::one() {
-        "opposite"
-    } else {
-        "proportional"
+impl<'a> FunctionField<'a> {
+    /// The field of rational functions in the parameter called `parameter`.
+    pub(super) fn new(parameter: &'a str) -> Self {
+        FunctionField { parameter }
     }
 }
 
-/// `b = f · a` for two equally long function vectors, when such an `f` exists and `a ≠ 0`.
-fn proportional(a: &[RationalFunction], b: &[RationalFunction]) -> Option<RationalFunction> {
-    let pivot = a.iter().position(|x| !x.is_zero())?;
-    let f = b[pivot].div(&a[pivot])?;
-    a.iter().zip(b).all(|(x, y)| &x.mul(&f) == y).then_some(f)
-}
-
-/// Largest number of relations listed per texture.
-const MAX_RELATIONS: usize = 200;
-
-pub(super) fn relations(
-    parameter: &str,
-    rows: &[String],
-    columns: &[String],
-    entries: &[Entry],
-) -> Vec<Relation> {
-    let nc = columns.len();
-    let mut out = Vec::new();
-    let mut firsts: Vec<(RationalFunction, BigRational, usize)> = Vec::new();
-    for (i, e) in entries.iter().enumerate() {
-        let Some(f) = known_function(e).filter(|f| !f.is_zero()) else {
-            continue;
-        };
-        let (unit, lead) = up_to_constant(&f);
-        match firsts.iter().find(|(u, _, _)| u == &unit) {
-            Some((_, first_lead, j)) => {
-                let factor = &lead / first_lead;
-                out.push(Relation {
-                    between: "entries",
-                    kind: constant_kind(&factor),
-                    first: entries[*j].fields.join(" "),
-                    second: e.fields.join(" "),
-                    factor: factor.to_string(),
-                    factor_depends_on_parameter: false,
-                });
-            }
-            None => firsts.push((unit, lead, i)),
+impl RelationField for FunctionField<'_> {
+    type Elem = RationalFunction;
+    fn known(&self, e: &Entry) -> Option<RationalFunction> {
+        if !e.status.is_known() {
+            return None;
+        }
+        match &e.value {
+            None => Some(RationalFunction::constant(BigRational::zero())),
+            Some(v) => v.to_function(),
         }
     }
-    let nr = rows.len();
-    let row_vals: Vec<Option<Vec<RationalFunction>>> = (0..nr)
-        .map(|r| {
-            (0..nc)
-                .map(|c| known_function(&entries[r * nc + c]))
-                .collect()
-        })
-        .collect();
-    let col_vals: Vec<Option<Vec<RationalFunction>>> = (0..nc)
-        .map(|c| {
-            (0..nr)
-                .map(|r| known_function(&entries[r * nc + c]))
-                .collect()
-        })
-        .collect();
-    for (between, labels, vals) in [("rows", rows, row_vals), ("columns", columns, col_vals)] {
-        for i in 0..vals.len() {
-            let Some(b) = &vals[i] else { continue };
-            if b.iter().all(RationalFunction::is_zero) {
-                out.push(Relation {
-                    between,
-                    kind: "zero",
-                    first: labels[i].clone(),
-                    second: String::new(),
-                    factor: "0".into(),
-                    factor_depends_on_parameter: false,
-                });
-                continue;
-            }
-            for j in 0..i {
-                let Some(a) = &vals[j] else { continue };
-                if let Some(f) = proportional(a, b) {
-                    let constant = f.as_constant();
-                    out.push(Relation {
-                        between,
-                        kind: constant.as_ref().map_or("proportional", constant_kind),
-                        first: labels[j].clone(),
-                        second: labels[i].clone(),
-                        factor: f.to_text(parameter),
-                        factor_depends_on_parameter: constant.is_none(),
-                    });
-                    break;
-                }
-            }
-        }
+    fn is_zero(&self, x: &RationalFunction) -> bool {
+        x.is_zero()
     }
-    out.truncate(MAX_RELATIONS);
-    out
+    /// The function divided by its numerator's leading coefficient, and that coefficient.
+    fn up_to_constant(&self, f: &RationalFunction) -> (RationalFunction, BigRational) {
+        let lead = f.numerator().leading();
+        let unit = RationalFunction::new(
+            f.numerator().scale(&(BigRational::one() / &lead)),
+            f.denominator().clone(),
+        )
+        .expect("a monic denominator is non-zero");
+        (unit, lead)
+    }
+    fn mul(&self, a: &RationalFunction, b: &RationalFunction) -> RationalFunction {
+        a.mul(b)
+    }
+    fn div(&self, a: &RationalFunction, b: &RationalFunction) -> Option<RationalFunction> {
+        a.div(b)
+    }
+    /// A constant factor is written and classified as a rational; any other is `proportional`, written in the
+    /// parameter.
+    fn describe(&self, f: &RationalFunction) -> (&'static str, String, bool) {
+        let constant = f.as_constant();
+        (
+            constant.as_ref().map_or("proportional", constant_kind),
+            f.to_text(self.parameter),
+            constant.is_none(),
+        )
+    }
+    fn rank(&self, m: &[Vec<RationalFunction>]) -> usize {
+        exact_rank_over_functions(m)
+    }
 }
 
 #[cfg(test)]

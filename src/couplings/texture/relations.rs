@@ -1,12 +1,18 @@
 //! Ranks and exact relations of a texture: structural rank (maximum bipartite matching with petgraph), exact
-//! rank over Q, and equal/opposite/proportional/zero relations between entries, rows and columns.
+//! rank, and equal/opposite/proportional/zero relations between entries, rows and columns.
 //!
-//! Invariant: every relation is exact (`second = factor · first` over Q); nothing here approximates.
+//! One search ([`search`]) finds the relations over any field of values given as a [`RelationField`]: the
+//! rationals ([`Rationals`], here) or the rational functions of one parameter
+//! ([`super::function_field::FunctionField`]). The texture is read over `Q(parameter)` as soon as one value is
+//! a rational function, over Q otherwise.
+//!
+//! Invariant: every relation is exact (`second = factor · first` over the field); nothing here approximates.
 
+use super::function_field::{FunctionField, parameter_of};
 use super::{Entry, Relation};
 use crate::arith::{RationalField, SparseMatrix, rank_exact};
 use num_rational::BigRational;
-use num_traits::{Signed, Zero};
+use num_traits::{One, Signed, Zero};
 
 /// Exact rank over Q of a dense rational matrix (via [`crate::arith::rank_exact`]).
 pub fn exact_rank(m: &[Vec<BigRational>]) -> usize {
@@ -45,89 +51,173 @@ pub fn structural_rank(pattern: &[Vec<bool>]) -> usize {
     petgraph::algo::maximum_matching(&g).len()
 }
 
-/// `b = f · a` for two equally long rational vectors, when such an `f` exists and `a ≠ 0`.
-fn proportional(a: &[BigRational], b: &[BigRational]) -> Option<BigRational> {
-    let pivot = a.iter().position(|x| !x.is_zero())?;
-    let f = &b[pivot] / &a[pivot];
-    a.iter().zip(b).all(|(x, y)| &(x * &f) == y).then_some(f)
+/// The field a texture's values are read in, for the generic rank and relation search: how an entry's known
+/// value is read, the field operations the search needs, and how a row or column factor is written.
+pub(super) trait RelationField {
+    /// A value of the field.
+    type Elem: Clone + PartialEq;
+    /// The known value of an entry (zero when known and without value), `None` when unknown.
+    fn known(&self, e: &Entry) -> Option<Self::Elem>;
+    /// Whether `x` is zero.
+    fn is_zero(&self, x: &Self::Elem) -> bool;
+    /// `x = c · u` for a non-zero `x`: the representative `u` of the class of `x` up to a non-zero rational
+    /// constant, and that constant `c`. Entries with the same `u` are related by the quotient of their `c`.
+    fn up_to_constant(&self, x: &Self::Elem) -> (Self::Elem, BigRational);
+    /// `a · b`.
+    fn mul(&self, a: &Self::Elem, b: &Self::Elem) -> Self::Elem;
+    /// `a / b`, `None` when `b` is zero.
+    fn div(&self, a: &Self::Elem, b: &Self::Elem) -> Option<Self::Elem>;
+    /// The kind (`"equal"`, `"opposite"`, `"proportional"`), the text and whether it depends on the parameter, of
+    /// a factor between two rows or two columns.
+    fn describe(&self, f: &Self::Elem) -> (&'static str, String, bool);
+    /// Exact rank of a dense matrix over the field.
+    fn rank(&self, m: &[Vec<Self::Elem>]) -> usize;
 }
 
-fn relation_kind(f: &BigRational) -> &'static str {
-    if f == &BigRational::from_integer(1.into()) {
+/// The rationals, for textures whose values are all numbers.
+pub(super) struct Rationals;
+
+impl RelationField for Rationals {
+    type Elem = BigRational;
+    fn known(&self, e: &Entry) -> Option<BigRational> {
+        if !e.status.is_known() {
+            return None;
+        }
+        match &e.value {
+            None => Some(BigRational::zero()),
+            Some(v) => v.as_rational().cloned(),
+        }
+    }
+    fn is_zero(&self, x: &BigRational) -> bool {
+        x.is_zero()
+    }
+    /// The class of `x` up to sign: `(|x|, ±1)`, so entries are related when equal or opposite.
+    fn up_to_constant(&self, x: &BigRational) -> (BigRational, BigRational) {
+        let sign = if x.is_negative() {
+            -BigRational::one()
+        } else {
+            BigRational::one()
+        };
+        (x.abs(), sign)
+    }
+    fn mul(&self, a: &BigRational, b: &BigRational) -> BigRational {
+        a * b
+    }
+    fn div(&self, a: &BigRational, b: &BigRational) -> Option<BigRational> {
+        (!b.is_zero()).then(|| a / b)
+    }
+    fn describe(&self, f: &BigRational) -> (&'static str, String, bool) {
+        (constant_kind(f), f.to_string(), false)
+    }
+    fn rank(&self, m: &[Vec<BigRational>]) -> usize {
+        exact_rank(m)
+    }
+}
+
+/// `"equal"`, `"opposite"` or `"proportional"` for a rational factor.
+pub(super) fn constant_kind(f: &BigRational) -> &'static str {
+    if f.is_one() {
         "equal"
-    } else if f == &BigRational::from_integer((-1).into()) {
+    } else if f == &-BigRational::one() {
         "opposite"
     } else {
         "proportional"
     }
 }
 
+/// `b = f · a` for two equally long vectors, when such an `f` exists and `a ≠ 0`.
+fn proportional<F: RelationField>(field: &F, a: &[F::Elem], b: &[F::Elem]) -> Option<F::Elem> {
+    let pivot = a.iter().position(|x| !field.is_zero(x))?;
+    let f = field.div(&b[pivot], &a[pivot])?;
+    a.iter()
+        .zip(b)
+        .all(|(x, y)| &field.mul(x, &f) == y)
+        .then_some(f)
+}
+
 /// Largest number of relations listed per texture (each relation links a member to its first partner).
 const MAX_RELATIONS: usize = 200;
 
-fn known_value(e: &Entry) -> Option<BigRational> {
-    if !e.status.is_known() {
-        return None;
-    }
-    match &e.value {
-        None => Some(BigRational::zero()),
-        Some(v) => v.as_rational().cloned(),
-    }
+/// Row `r` of the known values, `None` when some entry of it is unknown.
+fn known_row<F: RelationField>(
+    field: &F,
+    nc: usize,
+    entries: &[Entry],
+    r: usize,
+) -> Option<Vec<F::Elem>> {
+    (0..nc).map(|c| field.known(&entries[r * nc + c])).collect()
+}
+
+/// Exact rank over the field when every entry is known.
+fn known_rank<F: RelationField>(
+    field: &F,
+    nr: usize,
+    nc: usize,
+    entries: &[Entry],
+) -> Option<usize> {
+    let m: Option<Vec<Vec<F::Elem>>> = (0..nr).map(|r| known_row(field, nc, entries, r)).collect();
+    m.map(|m| field.rank(&m))
 }
 
 /// Exact rank of a texture when every entry is known: over Q, or over `Q(parameter)` when some value is a
 /// rational function ([`super::function_field`]).
 pub(super) fn texture_rank(nr: usize, nc: usize, entries: &[Entry]) -> Option<usize> {
-    if super::function_field::parameter_of(entries).is_some() {
-        return super::function_field::rank(nr, nc, entries);
+    match parameter_of(entries) {
+        Some(p) => known_rank(&FunctionField::new(p), nr, nc, entries),
+        None => known_rank(&Rationals, nr, nc, entries),
     }
-    let m: Option<Vec<Vec<BigRational>>> = (0..nr)
-        .map(|r| (0..nc).map(|c| known_value(&entries[r * nc + c])).collect())
-        .collect();
-    m.map(|m| exact_rank(&m))
 }
 
 /// Exact relations of a texture (over `Q(parameter)` when some value is a rational function).
 pub(super) fn relations(rows: &[String], columns: &[String], entries: &[Entry]) -> Vec<Relation> {
-    if let Some(p) = super::function_field::parameter_of(entries) {
-        return super::function_field::relations(p, rows, columns, entries);
+    match parameter_of(entries) {
+        Some(p) => search(&FunctionField::new(p), rows, columns, entries),
+        None => search(&Rationals, rows, columns, entries),
     }
+}
+
+/// The relations of a texture over `field`, in this order: entries (each non-zero value linked to the first
+/// entry with the same value up to a rational constant), then rows, then columns with every entry known (each
+/// zero, or linked to the first earlier one it is proportional to); at most [`MAX_RELATIONS`].
+pub(super) fn search<F: RelationField>(
+    field: &F,
+    rows: &[String],
+    columns: &[String],
+    entries: &[Entry],
+) -> Vec<Relation> {
     let nc = columns.len();
-    let val = known_value;
     let mut out = Vec::new();
-    // Entries: each non-zero value linked to the first entry of the same absolute value.
-    let mut firsts: Vec<(BigRational, usize)> = Vec::new();
+    let mut firsts: Vec<(F::Elem, BigRational, usize)> = Vec::new();
     for (i, e) in entries.iter().enumerate() {
-        let Some(v) = val(e).filter(|v| !v.is_zero()) else {
+        let Some(v) = field.known(e).filter(|v| !field.is_zero(v)) else {
             continue;
         };
-        let abs = v.abs();
-        match firsts.iter().find(|(a, _)| a == &abs) {
-            Some((_, j)) => {
-                let f = v / val(&entries[*j]).expect("known");
+        let (unit, lead) = field.up_to_constant(&v);
+        match firsts.iter().find(|(u, _, _)| u == &unit) {
+            Some((_, first_lead, j)) => {
+                let factor = &lead / first_lead;
                 out.push(Relation {
                     between: "entries",
-                    kind: relation_kind(&f),
+                    kind: constant_kind(&factor),
                     first: entries[*j].fields.join(" "),
                     second: e.fields.join(" "),
-                    factor: f.to_string(),
+                    factor: factor.to_string(),
                     factor_depends_on_parameter: false,
                 });
             }
-            None => firsts.push((abs, i)),
+            None => firsts.push((unit, lead, i)),
         }
     }
-    // Rows and columns with every entry known.
-    let row_vals: Vec<Option<Vec<BigRational>>> = (0..rows.len())
-        .map(|r| (0..nc).map(|c| val(&entries[r * nc + c])).collect())
-        .collect();
-    let col_vals: Vec<Option<Vec<BigRational>>> = (0..nc)
-        .map(|c| (0..rows.len()).map(|r| val(&entries[r * nc + c])).collect())
+    let nr = rows.len();
+    let row_vals: Vec<Option<Vec<F::Elem>>> =
+        (0..nr).map(|r| known_row(field, nc, entries, r)).collect();
+    let col_vals: Vec<Option<Vec<F::Elem>>> = (0..nc)
+        .map(|c| (0..nr).map(|r| field.known(&entries[r * nc + c])).collect())
         .collect();
     for (between, labels, vals) in [("rows", rows, row_vals), ("columns", columns, col_vals)] {
         for i in 0..vals.len() {
             let Some(b) = &vals[i] else { continue };
-            if b.iter().all(|x| x.is_zero()) {
+            if b.iter().all(|x| field.is_zero(x)) {
                 out.push(Relation {
                     between,
                     kind: "zero",
@@ -140,14 +230,15 @@ pub(super) fn relations(rows: &[String], columns: &[String], entries: &[Entry]) 
             }
             for j in 0..i {
                 let Some(a) = &vals[j] else { continue };
-                if let Some(f) = proportional(a, b) {
+                if let Some(f) = proportional(field, a, b) {
+                    let (kind, factor, factor_depends_on_parameter) = field.describe(&f);
                     out.push(Relation {
                         between,
-                        kind: relation_kind(&f),
+                        kind,
                         first: labels[j].clone(),
                         second: labels[i].clone(),
-                        factor: f.to_string(),
-                        factor_depends_on_parameter: false,
+                        factor,
+                        factor_depends_on_parameter,
                     });
                     break;
                 }
