@@ -432,6 +432,18 @@ fn to_f64(text: &str) -> f64 {
         .unwrap_or(f64::NAN)
 }
 
+/// Push the arrays `name` (nearest `f64`) and `name_exact` (the exact strings) of a list of coefficients.
+fn push_coefficients(out: &mut Vec<(String, NpyArray)>, name: &str, exact: Vec<String>) {
+    out.push((
+        name.into(),
+        NpyArray::F64 {
+            shape: vec![exact.len()],
+            data: exact.iter().map(|c| to_f64(c)).collect(),
+        },
+    ));
+    out.push((format!("{name}_exact"), NpyArray::Str(exact)));
+}
+
 fn i64_table(rows: &[Vec<i64>], width: usize) -> NpyArray {
     NpyArray::I64 {
         shape: vec![rows.len(), width],
@@ -494,17 +506,11 @@ impl Export {
                 format!("polynomial_{}_exponents", j + 1),
                 i64_table(&rows, nvars),
             ));
-            out.push((
-                format!("polynomial_{}_coefficients", j + 1),
-                NpyArray::F64 {
-                    shape: vec![p.coefficients.len()],
-                    data: p.coefficients.iter().map(|c| to_f64(c)).collect(),
-                },
-            ));
-            out.push((
-                format!("polynomial_{}_coefficients_exact", j + 1),
-                NpyArray::Str(p.coefficients.clone()),
-            ));
+            push_coefficients(
+                &mut out,
+                &format!("polynomial_{}_coefficients", j + 1),
+                p.coefficients.clone(),
+            );
         }
         let labels = self.multiplets.iter().map(|x| x.label.clone()).collect();
         out.push(("multiplet_labels".into(), NpyArray::Str(labels)));
@@ -525,7 +531,7 @@ impl Export {
             },
         ));
         let (mut class_rows, mut term_rows, mut term_exps) = (Vec::new(), Vec::new(), Vec::new());
-        let (mut coeffs, mut exact) = (Vec::new(), Vec::new());
+        let mut exact = Vec::new();
         for (mi, mult) in self.multiplets.iter().enumerate() {
             for (ci, class) in mult.classes.iter().enumerate() {
                 class_rows.push(vec![mi as i64, ci as i64, class.class_type as i64]);
@@ -533,7 +539,6 @@ impl Export {
                     let mask: i64 = t.koszul.iter().map(|&j| 1i64 << (j - 1)).sum();
                     term_rows.push(vec![mi as i64, ci as i64, mask, t.q as i64]);
                     term_exps.push(t.monomial.iter().flatten().map(|&x| x as i64).collect());
-                    coeffs.push(to_f64(&t.coefficient));
                     exact.push(t.coefficient.clone());
                 }
             }
@@ -541,14 +546,7 @@ impl Export {
         out.push(("classes".into(), i64_table(&class_rows, 3)));
         out.push(("bott_terms".into(), i64_table(&term_rows, 4)));
         out.push(("bott_exponents".into(), i64_table(&term_exps, nvars)));
-        out.push((
-            "bott_coefficients".into(),
-            NpyArray::F64 {
-                shape: vec![coeffs.len()],
-                data: coeffs,
-            },
-        ));
-        out.push(("bott_coefficients_exact".into(), NpyArray::Str(exact)));
+        push_coefficients(&mut out, "bott_coefficients", exact);
         self.push_partition_arrays(&mut out);
         out
     }
@@ -561,8 +559,7 @@ impl Export {
         let mask =
             |set: &[usize], shift: usize| -> i64 { set.iter().map(|&j| 1i64 << (j - shift)).sum() };
         let (mut on_x, mut exps) = (Vec::new(), Vec::new());
-        let (mut rows, mut monomials, mut coeffs, mut exact) =
-            (Vec::new(), Vec::new(), Vec::new(), Vec::new());
+        let (mut rows, mut monomials, mut exact) = (Vec::new(), Vec::new(), Vec::new());
         for (mi, mult) in self.multiplets.iter().enumerate() {
             for (ci, class) in mult.classes.iter().enumerate() {
                 on_x.push(class.on_x.clone());
@@ -578,7 +575,6 @@ impl Export {
                     row.extend(t.faces.iter().map(|f| mask(f, 0)));
                     rows.push(row);
                     monomials.push(t.monomial.iter().flatten().map(|&x| x as i64).collect());
-                    coeffs.push(to_f64(&t.coefficient));
                     exact.push(t.coefficient.clone());
                 }
             }
@@ -587,14 +583,7 @@ impl Export {
         out.push(("class_partition_exponents".into(), i64_table(&exps, m)));
         out.push(("lift_terms".into(), i64_table(&rows, 3 + m)));
         out.push(("lift_exponents".into(), i64_table(&monomials, nvars)));
-        out.push((
-            "lift_coefficients".into(),
-            NpyArray::F64 {
-                shape: vec![coeffs.len()],
-                data: coeffs,
-            },
-        ));
-        out.push(("lift_coefficients_exact".into(), NpyArray::Str(exact)));
+        push_coefficients(out, "lift_coefficients", exact);
         let width = self
             .configuration
             .ambient
@@ -606,8 +595,8 @@ impl Export {
             r.resize(width, 0);
             r
         };
-        let (mut frows, mut fx, mut fxbar, mut fc, mut fexact) =
-            (Vec::new(), Vec::new(), Vec::new(), Vec::new(), Vec::new());
+        let (mut frows, mut fx, mut fxbar, mut fexact) =
+            (Vec::new(), Vec::new(), Vec::new(), Vec::new());
         for f in &self.face_forms {
             for t in &f.terms {
                 frows.push(vec![
@@ -619,21 +608,13 @@ impl Export {
                 ]);
                 fx.push(pad(&t.x));
                 fxbar.push(pad(&t.xbar));
-                fc.push(to_f64(&t.coefficient));
                 fexact.push(t.coefficient.clone());
             }
         }
         out.push(("face_form_terms".into(), i64_table(&frows, 5)));
         out.push(("face_form_x".into(), i64_table(&fx, width)));
         out.push(("face_form_xbar".into(), i64_table(&fxbar, width)));
-        out.push((
-            "face_form_coefficients".into(),
-            NpyArray::F64 {
-                shape: vec![fc.len()],
-                data: fc,
-            },
-        ));
-        out.push(("face_form_coefficients_exact".into(), NpyArray::Str(fexact)));
+        push_coefficients(out, "face_form_coefficients", fexact);
     }
 }
 
