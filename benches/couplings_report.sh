@@ -23,3 +23,6 @@ for f in catalogs-demo/*.toml; do
 done
 run "rank 5 on P2xP3[(2,1);(1,3)] (invented)" --ambient 2,3 --equations "2,1;1,3" \
   --bundles "2,-1;-1,1;0,-1;-1,1;0,0"
+# allowed entries with non-zero values (1 5 5bar at type sum 2); fails the consistency checks (invented)
+run "rank 5 on P1^5[(1,1,1,1,2);(1,1,1,1,0)] (invented)" --ambient 1,1,1,1,1 --equations "1,1,1,1,2;1,1,1,1,0" \
+  --bundles "0,-1,1,0,1;0,1,0,0,-1;-1,0,1,1,0;0,1,-1,0,1;1,-1,-1,-1,-1"

@@ -116,6 +116,42 @@ fn inline_bundles_singlets_and_timing() {
     assert!(out.contains("switched on by singlets"), "{out}");
 }
 
+/// A rank-5 sum on the codimension-2 configuration P1^5[(1,1,1,1,2);(1,1,1,1,0)] (invented; found by a random
+/// search over c1 = 0 sums, it fails the consistency checks and is computed with a warning): the singlet couplings
+/// `1 5 5bar` have exact non-zero values at type sum = K = 2, next to entries forbidden by charge and computed zeros.
+#[test]
+fn rank_five_codimension_two_sum_has_non_zero_allowed_entries() {
+    let (code, out, err) = sheafwright(&[
+        "couplings",
+        "--ambient",
+        "1,1,1,1,1",
+        "--equations",
+        "1,1,1,1,2;1,1,1,1,0",
+        "--bundles",
+        "0,-1,1,0,1;0,1,0,0,-1;-1,0,1,1,0;0,1,-1,0,1;1,-1,-1,-1,-1",
+        "--json",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v["codimension"], 2);
+    let mut non_zero = 0;
+    for class in v["classes"].as_array().unwrap() {
+        for e in class["entries"].as_array().unwrap() {
+            if e["status"] == "value" && e["value"] != "0" {
+                let types: usize = e["types"]
+                    .as_array()
+                    .unwrap()
+                    .iter()
+                    .map(|t| t.as_u64().unwrap() as usize)
+                    .sum();
+                assert!(types >= 2, "{e}");
+                non_zero += 1;
+            }
+        }
+    }
+    assert!(non_zero > 0, "{out}");
+}
+
 /// A model with a symbolic parameter: the values are rational functions of it (text and JSON with the
 /// coefficients), the reconstruction data and the special-value list are reported, and no warning says the
 /// functions are missing. The values themselves are checked against direct computations in
