@@ -310,10 +310,11 @@ def main(argv):
                         print(f"  {wedge}: {val:.6g}")
     print(f"checked {forms_checked} ambient forms at {points} point(s): worst relative dbar residual "
           f"{worst:.2e} (tolerance {TOL:g}); {failures} failure(s)")
-    partition = [(label, i, c) for label, i, c in classes if c["on_x"] == "partition_of_unity"]
+    # every partition-of-unity class with --all, else the first one (which need not be the first class)
+    partition = [(m["label"], i, c) for m in exp.data["multiplets"] for i, c in enumerate(m["classes"])
+                 if c["on_x"] == "partition_of_unity"]
     if not check_all:
-        partition = [(label, i, c) for m in exp.data["multiplets"] for i, c in enumerate(m["classes"])
-                     if c["on_x"] == "partition_of_unity"][:1]
+        partition = partition[:1]
     checked, worst_on, worst_off = 0, 0.0, 0.0
     for p in range(points):
         x = exp.point_on_x(rng)
