@@ -1,6 +1,7 @@
 #!/usr/bin/env bash
 # Coupling benchmarks: per model and per operator time of `sheafwright couplings` (one thread) for every demo
-# model with a bundle and one invented rank-5 sum on the codimension-2 configuration P2xP3[(2,1);(1,3)].
+# model with a bundle, the benchmark models in benches/models (a family with psi-dependent textures) and invented
+# rank-5 sums on two codimension-2 configurations.
 # Usage: benches/couplings_report.sh   (builds the release binary first). Goal: each demo model under 1 s.
 set -euo pipefail
 cd "$(dirname "$0")/.."
@@ -17,7 +18,7 @@ run() {
   awk -v l="$label" -v a="$t0" -v b="$t1" 'BEGIN { printf "%-44s wall %7.3f s\n", l, b - a }'
   grep -v ' 0.0 ms' /tmp/sw-couplings-timing | grep '^timing' | sed 's/^/    /'
 }
-for f in catalogs-demo/*.toml; do
+for f in catalogs-demo/*.toml benches/models/*.toml; do
   grep -q '^\[bundle\]' "$f" || continue
   run "$(basename "$f" .toml)" "$f"
 done

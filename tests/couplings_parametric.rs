@@ -278,3 +278,40 @@ fn family_textures_specialise_to_the_direct_values_of_fresh_members() {
     }
     assert!(checked > 0 && non_constant > 0, "{checked} {non_constant}");
 }
+
+/// Shared sample members (`FamilyMembers`) change nothing but the cost: two tensors of the demo family computed
+/// through one cache equal the ones computed with fresh engines, and the cache holds one member per distinct
+/// sample value met (fewer than the members built without it, one set per tensor).
+#[test]
+fn shared_family_members_give_the_same_tensors_with_one_member_per_sample_value() {
+    use sheafwright::couplings::parametric::{FamilyMembers, parametric_yukawa_tensor_with};
+    let model = demo();
+    let par = model.parameter().unwrap();
+    let (l1, l2) = (&FAMILY_SUM[0], &FAMILY_SUM[1]);
+    let l5: Vec<i64> = (0..4).map(|i| -l1[i] - l2[i]).collect();
+    let triples: [[&[i64]; 3]; 2] = [[l1, l2, &l5], [l2, l1, &l5]];
+    let members = FamilyMembers::new(model.config(), &par.polynomials);
+    let options = ParametricOptions::default();
+    let mut points = std::collections::BTreeSet::new();
+    let mut built_without_cache = 0;
+    for ks in triples {
+        let shared = parametric_yukawa_tensor_with(&members, &par.name, ks, &options).unwrap();
+        let fresh =
+            parametric_yukawa_tensor(model.config(), &par.name, &par.polynomials, ks, &options)
+                .unwrap();
+        assert_eq!(shared.values, fresh.values);
+        assert_eq!(shared.interpolation_points, fresh.interpolation_points);
+        assert_eq!(shared.special_values, fresh.special_values);
+        let here: Vec<_> = fresh
+            .interpolation_points
+            .iter()
+            .chain(&fresh.check_points)
+            .cloned()
+            .collect();
+        built_without_cache += here.len();
+        points.extend(here);
+    }
+    // The demo family has no degenerate or special sample value, so every member built is a used point.
+    assert_eq!(members.len(), points.len());
+    assert!(members.len() < built_without_cache);
+}

@@ -25,11 +25,8 @@
 //! exact value computed there, and `values.len() = dims[0]·dims[1]·dims[2]` (row-major like [`YukawaTensor`]).
 
 use super::value::{CouplingEngine, CouplingError, YukawaTensor};
-use crate::arith::{
-    RationalField, RationalFunction, UniPoly, rational_interpolate, rational_roots,
-};
-use crate::cohomology::complex::Complex;
-use crate::cohomology::{CohomologyEngine, CohomologyError, PolynomialChoice, class_basis};
+use crate::arith::{RationalFunction, UniPoly, rational_interpolate, rational_roots};
+use crate::cohomology::{CohomologyEngine, CohomologyError, PolynomialChoice};
 use crate::geometry::Configuration;
 use crate::poly::parametric::ParametricPolynomial;
 use crate::poly::{Polynomial, VariableLayout};
@@ -38,6 +35,8 @@ use num_integer::Integer;
 use num_rational::BigRational;
 use num_traits::Zero;
 use serde::Serialize;
+use std::collections::HashMap;
+use std::sync::{Arc, Mutex};
 use thiserror::Error;
 
 /// Largest integer coefficient (after clearing denominators) at both ends of a denominator for which rational
@@ -202,46 +201,99 @@ fn specialise(
     Ok(out)
 }
 
+/// The members of a family at its sample values, each built once (cohomology engine, coupling engine with its
+/// lifted bases and normalisation) and shared by every tensor computed through the same [`FamilyMembers`].
+///
+/// Invariant: the member stored for `t` is the one of the polynomials specialised at `t` (or the reason that
+/// specialisation is degenerate); failures other than degeneracy are returned and not stored.
+pub struct FamilyMembers<'p> {
+    config: &'p Configuration,
+    polys: &'p [ParametricPolynomial],
+    members: Mutex<HashMap<BigRational, Arc<Member>>>,
+}
+
+enum Member {
+    Degenerate(String),
+    Computed(CouplingEngine<'static>),
+}
+
+impl<'p> FamilyMembers<'p> {
+    /// An empty cache for the family `polys` (one per equation of `config`).
+    pub fn new(config: &'p Configuration, polys: &'p [ParametricPolynomial]) -> Self {
+        FamilyMembers {
+            config,
+            polys,
+            members: Mutex::new(HashMap::new()),
+        }
+    }
+
+    /// Number of members built so far.
+    pub fn len(&self) -> usize {
+        self.members.lock().map_or(0, |m| m.len())
+    }
+
+    /// Whether no member was built yet.
+    pub fn is_empty(&self) -> bool {
+        self.len() == 0
+    }
+
+    fn member(&self, t: &BigRational) -> Result<Arc<Member>, ParametricError> {
+        if let Some(hit) = self.members.lock().ok().and_then(|m| m.get(t).cloned()) {
+            return Ok(hit);
+        }
+        let member = Arc::new(match specialise(self.config, self.polys, t) {
+            Err(m) => Member::Degenerate(m),
+            Ok(given) => Member::Computed(CouplingEngine::owning(CohomologyEngine::new(
+                self.config,
+                PolynomialChoice::Given(given),
+            )?)),
+        });
+        if let Ok(mut m) = self.members.lock() {
+            m.insert(t.clone(), member.clone());
+        }
+        Ok(member)
+    }
+}
+
 fn evaluate(
-    config: &Configuration,
-    polys: &[ParametricPolynomial],
+    members: &FamilyMembers,
     bundles: [&[i64]; 3],
     t: &BigRational,
 ) -> Result<PointResult, ParametricError> {
-    let given = match specialise(config, polys, t) {
-        Ok(g) => g,
-        Err(m) => return Ok(PointResult::Degenerate(m)),
+    let member = members.member(t)?;
+    let coupling = match member.as_ref() {
+        Member::Degenerate(m) => return Ok(PointResult::Degenerate(m.clone())),
+        Member::Computed(c) => c,
     };
-    let engine = CohomologyEngine::new(config, PolynomialChoice::Given(given))?;
+    let degenerate = |e: &CohomologyError| {
+        matches!(e, CohomologyError::NotCompleteIntersection { .. })
+            .then(|| PointResult::Degenerate(e.to_string()))
+    };
     let mut h1 = [0usize; 3];
     let mut classes: [Vec<_>; 3] = Default::default();
     for s in 0..3 {
         // A degenerate member shows up as hypercohomology outside degrees 0..=dim X.
-        match engine.cohomology(bundles[s]) {
-            Ok(_) => {}
-            Err(e @ CohomologyError::NotCompleteIntersection { .. }) => {
-                return Ok(PointResult::Degenerate(e.to_string()));
+        if let Err(e) = coupling.engine().cohomology(bundles[s]) {
+            return degenerate(&e).ok_or_else(|| e.into());
+        }
+        let basis = match coupling.lifted_basis(bundles[s], 1) {
+            Ok(b) => b,
+            Err(CouplingError::Cohomology(e)) => {
+                return degenerate(&e).ok_or_else(|| CouplingError::Cohomology(e).into());
             }
             Err(e) => return Err(e.into()),
-        }
-        let (page, fpolys) = engine.rational_page(bundles[s])?;
-        let cx = Complex {
-            field: &RationalField,
-            layout: engine.layout(),
-            page: &page,
-            polys: &fpolys,
         };
-        let basis = class_basis(&cx, 1);
-        h1[s] = basis.len();
+        h1[s] = basis.classes.len();
         classes[s] = basis
+            .classes
             .iter()
             .map(|c| (c.class_type, c.vector.iter().map(|(i, _)| *i).collect()))
             .collect();
     }
-    let tensor = match CouplingEngine::new(&engine).yukawa_tensor(bundles) {
+    let tensor = match coupling.yukawa_tensor(bundles) {
         Ok(t) => t,
-        Err(CouplingError::Cohomology(e @ CohomologyError::NotCompleteIntersection { .. })) => {
-            return Ok(PointResult::Degenerate(e.to_string()));
+        Err(CouplingError::Cohomology(e)) => {
+            return degenerate(&e).ok_or_else(|| CouplingError::Cohomology(e).into());
         }
         Err(e) => return Err(e.into()),
     };
@@ -285,9 +337,26 @@ pub fn parametric_yukawa_tensor(
     bundles: [&[i64]; 3],
     options: &ParametricOptions,
 ) -> Result<ParametricYukawa, ParametricError> {
-    if polys.len() != config.codimension() {
+    parametric_yukawa_tensor_with(
+        &FamilyMembers::new(config, polys),
+        parameter,
+        bundles,
+        options,
+    )
+}
+
+/// [`parametric_yukawa_tensor`] with the members taken from (and added to) `members`, so that several tensors
+/// of one family share each sample value's engines, lifted bases and normalisation.
+pub fn parametric_yukawa_tensor_with(
+    members: &FamilyMembers,
+    parameter: &str,
+    bundles: [&[i64]; 3],
+    options: &ParametricOptions,
+) -> Result<ParametricYukawa, ParametricError> {
+    let config = members.config;
+    if members.polys.len() != config.codimension() {
         return Err(ParametricError::PolynomialCount {
-            count: polys.len(),
+            count: members.polys.len(),
             expected: config.codimension(),
         });
     }
@@ -297,7 +366,7 @@ pub fn parametric_yukawa_tensor(
     let mut next_try = 2 + extra;
     for n in 0..options.max_points {
         let t = sample_value(n);
-        match evaluate(config, polys, bundles, &t)? {
+        match evaluate(members, bundles, &t)? {
             PointResult::Degenerate(m) => sampled.push((t, None, Some(m))),
             PointResult::Computed(sig, tensor) => {
                 sampled.push((t.clone(), Some(sig.clone()), None));
@@ -320,8 +389,7 @@ pub fn parametric_yukawa_tensor(
         next_try = b.points.len() + 2;
         if let Some(result) = try_reconstruct(parameter, bundles, b, extra) {
             return Ok(finish(
-                config,
-                polys,
+                members,
                 bundles,
                 result,
                 &buckets[generic],
@@ -416,8 +484,7 @@ fn classify(
 }
 
 fn finish(
-    config: &Configuration,
-    polys: &[ParametricPolynomial],
+    members: &FamilyMembers,
     bundles: [&[i64]; 3],
     mut result: ParametricYukawa,
     generic: &Bucket,
@@ -476,7 +543,7 @@ fn finish(
         if sampled.iter().any(|(t, _, _)| t == &r) {
             continue; // already classified as a sample
         }
-        let kind = match evaluate(config, polys, bundles, &r) {
+        let kind = match evaluate(members, bundles, &r) {
             Ok(PointResult::Degenerate(m)) => SpecialKind::Degenerate { message: m },
             Ok(PointResult::Computed(sig, _)) => {
                 classify(g, Some(&sig), None).unwrap_or(SpecialKind::PoleOnly)

@@ -41,6 +41,7 @@
 //! structural_rank_after_type ≥ rank` whenever `rank` is present.
 
 use super::operators::{Operator, SingletField, enumerate_operators, singlet_insertions};
+use super::parametric::FamilyMembers;
 use super::value::{CouplingEngine, CouplingError, NORMALISATION};
 use crate::arith::{RationalFunction, UniPoly};
 use crate::bundle::spectrum::{Multiplet, Spectrum};
@@ -462,6 +463,7 @@ fn couplings_with(
     let mut timings = Vec::new();
     let mut all_forbidden_textures = 0;
     let mut summary = family.map(FamilySummary::new);
+    let members = family.map(|f| FamilyMembers::new(f.config, f.polynomials));
     for op in enumerate_operators(group) {
         let started = Instant::now();
         operators.push(summarise(&op, &spectrum)?);
@@ -481,7 +483,7 @@ fn couplings_with(
                     options,
                     k_codim,
                     coupling_engine: &coupling_engine,
-                    family,
+                    family: family.zip(members.as_ref()),
                 };
                 let (cls, n) = ctx.textures(&mut types_cache, summary.as_mut())?;
                 tensors = n;
@@ -622,7 +624,8 @@ struct Cubic<'a> {
     options: &'a CouplingOptions,
     k_codim: usize,
     coupling_engine: &'a CouplingEngine<'a>,
-    family: Option<&'a ParameterFamily<'a>>,
+    /// The family and its shared sample members.
+    family: Option<(&'a ParameterFamily<'a>, &'a FamilyMembers<'a>)>,
 }
 
 impl Cubic<'_> {
@@ -722,8 +725,9 @@ impl Cubic<'_> {
                                     .coupling_engine
                                     .yukawa_tensor(triple)
                                     .map(|t| FamilyValues::Member(Box::new(t))),
-                                Some(f) => family_tensor(
+                                Some((f, members)) => family_tensor(
                                     f,
+                                    members,
                                     self.coupling_engine,
                                     [&key[0], &key[1], &key[2]],
                                     triple,

@@ -138,10 +138,27 @@ type BasisCache = HashMap<(Vec<i64>, i64), Arc<LiftedBasis>>;
 /// Terms of a cochain by their minimal vertices: key, coefficient, Čech degree per factor.
 type MinVertexIndex<'c> = HashMap<Vec<u8>, Vec<(&'c CechKey, &'c BigRational, Vec<u32>)>>;
 
+/// The cohomology engine of a [`CouplingEngine`]: borrowed, or owned when the coupling engine outlives the
+/// scope that built it (the per-sample members of a family, [`super::parametric::FamilyMembers`]).
+enum EngineRef<'a> {
+    Borrowed(&'a CohomologyEngine),
+    Owned(Box<CohomologyEngine>),
+}
+
+impl std::ops::Deref for EngineRef<'_> {
+    type Target = CohomologyEngine;
+    fn deref(&self) -> &CohomologyEngine {
+        match self {
+            EngineRef::Borrowed(e) => e,
+            EngineRef::Owned(e) => e,
+        }
+    }
+}
+
 /// Computes couplings for one cohomology engine, caching lifted bases per (bundle, degree) and the
 /// normalisation of `H^3(X, O_X)`.
 pub struct CouplingEngine<'a> {
-    engine: &'a CohomologyEngine,
+    engine: EngineRef<'a>,
     polys: FieldPolys<BigRational>,
     bases: Mutex<BasisCache>,
     norm: OnceLock<Result<Arc<Normalisation>, CouplingError>>,
@@ -251,9 +268,20 @@ fn for_each_product_term<'c>(
     true
 }
 
+impl CouplingEngine<'static> {
+    /// A coupling engine that owns `engine` (same caches and results as [`CouplingEngine::new`]).
+    pub fn owning(engine: CohomologyEngine) -> Self {
+        Self::over(EngineRef::Owned(Box::new(engine)))
+    }
+}
+
 impl<'a> CouplingEngine<'a> {
     /// A coupling engine over `engine` (its configuration, polynomials and size limits).
     pub fn new(engine: &'a CohomologyEngine) -> Self {
+        Self::over(EngineRef::Borrowed(engine))
+    }
+
+    fn over(engine: EngineRef<'a>) -> Self {
         let polys = crate::cohomology::to_field_polys(&Q, engine.polynomials()).expect("rationals");
         CouplingEngine {
             engine,
@@ -266,7 +294,7 @@ impl<'a> CouplingEngine<'a> {
 
     /// The cohomology engine.
     pub fn engine(&self) -> &CohomologyEngine {
-        self.engine
+        &self.engine
     }
 
     /// The exact complex of a lifted basis' bundle (for checks such as `total_differential`).

@@ -15,8 +15,8 @@
 //! when every entry of that tensor in the textures is a [`super::CouplingValue::RationalFunction`].
 
 use super::super::parametric::{
-    ParametricError, ParametricOptions, ParametricYukawa, SpecialKind, SpecialValue,
-    parametric_yukawa_tensor,
+    FamilyMembers, ParametricError, ParametricOptions, ParametricYukawa, SpecialKind, SpecialValue,
+    parametric_yukawa_tensor_with,
 };
 use super::super::value::{CouplingEngine, CouplingError, YukawaTensor};
 use crate::geometry::Configuration;
@@ -153,9 +153,10 @@ pub(super) enum FamilyValues {
 
 /// Compute the tensor of `bundles` over the family and compare it with the member (module documentation).
 /// Errors are the member computation's own (sizes, triviality); a failed reconstruction falls back to the
-/// member's values with a note.
+/// member's values with a note. The sample members come from `members` (shared by every tensor of the family).
 pub(super) fn family_tensor(
     family: &ParameterFamily,
+    members: &FamilyMembers,
     engine: &CouplingEngine,
     fields: [&str; 3],
     bundles: [&[i64]; 3],
@@ -175,23 +176,18 @@ pub(super) fn family_tensor(
         unlocated_denominators: vec![],
         note: None,
     };
-    let param = match parametric_yukawa_tensor(
-        family.config,
-        family.parameter,
-        family.polynomials,
-        bundles,
-        &family.options,
-    ) {
-        Ok(p) => p,
-        Err(ParametricError::Coupling(e)) => return Err(e),
-        Err(e) => {
-            record.note = Some(format!(
-                "{e}; the values are those of the member {} = {}",
-                family.parameter, family.member
-            ));
-            return Ok((FamilyValues::Member(Box::new(member)), record));
-        }
-    };
+    let param =
+        match parametric_yukawa_tensor_with(members, family.parameter, bundles, &family.options) {
+            Ok(p) => p,
+            Err(ParametricError::Coupling(e)) => return Err(e),
+            Err(e) => {
+                record.note = Some(format!(
+                    "{e}; the values are those of the member {} = {}",
+                    family.parameter, family.member
+                ));
+                return Ok((FamilyValues::Member(Box::new(member)), record));
+            }
+        };
     let pts = |v: &[BigRational]| v.iter().map(|x| x.to_string()).collect::<Vec<_>>();
     record.total_degree_bound = Some(param.total_degree_bound);
     record.max_degrees = Some(param.max_degrees);
