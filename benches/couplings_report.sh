@@ -27,3 +27,8 @@ run "rank 5 on P2xP3[(2,1);(1,3)] (invented)" --ambient 2,3 --equations "2,1;1,3
 # allowed entries with non-zero values (1 5 5bar at type sum 2); fails the consistency checks (invented)
 run "rank 5 on P1^5[(1,1,1,1,2);(1,1,1,1,0)] (invented)" --ambient 1,1,1,1,1 --equations "1,1,1,1,2;1,1,1,1,0" \
   --bundles "0,-1,1,0,1;0,1,0,0,-1;-1,0,1,1,0;0,1,-1,0,1;1,-1,-1,-1,-1"
+# non-zero cubic matter couplings in codimension 2 (found by benches/search_codim2_couplings.py; invented)
+run "rank 5, 10 10 5 non-zero, P1^5[(1,1,1,1,2);(1,1,1,1,0)]" --ambient 1,1,1,1,1 --equations "1,1,1,1,2;1,1,1,1,0" \
+  --bundles "2,-1,2,-1,2;-1,2,-2,-1,-2;-1,-1,1,2,1;0,0,-2,0,0;0,0,1,0,-1"
+run "rank 5, 5bar 10 5bar non-zero, same configuration" --ambient 1,1,1,1,1 --equations "1,1,1,1,2;1,1,1,1,0" \
+  --bundles "0,0,0,2,-2;2,-1,0,2,1;2,-1,0,-2,0;-2,-1,0,-1,-1;-2,3,0,-1,2"

@@ -152,6 +152,86 @@ fn rank_five_codimension_two_sum_has_non_zero_allowed_entries() {
     assert!(non_zero > 0, "{out}");
 }
 
+/// Rank-5 sums on the same codimension-2 configuration (invented; found by a seeded random search over c1 = 0
+/// sums, both fail the consistency checks and are computed with a warning) whose *cubic matter* couplings are
+/// non-zero: up-type `10 10 5` for the first, down-type `5bar 10 5bar` for the second. Every non-zero entry has
+/// type sum ≥ K = 2 (the vanishing theorem, from memory: Blesneag, Buchbinder, Lukas, JHEP 2017), and the
+/// separately computed tensor with two slots exchanged gives the opposite value (graded antisymmetry of the cup
+/// product of three degree-1 classes, common practice).
+#[test]
+fn codimension_two_sums_have_non_zero_cubic_matter_couplings() {
+    for (bundles, operator, swap) in [
+        (
+            "2,-1,2,-1,2;-1,2,-2,-1,-2;-1,-1,1,2,1;0,0,-2,0,0;0,0,1,0,-1",
+            "10 10 5",
+            (0, 1),
+        ),
+        (
+            "0,0,0,2,-2;2,-1,0,2,1;2,-1,0,-2,0;-2,-1,0,-1,-1;-2,3,0,-1,2",
+            "5bar 10 5bar",
+            (0, 2),
+        ),
+    ] {
+        let (code, out, err) = sheafwright(&[
+            "couplings",
+            "--ambient",
+            "1,1,1,1,1",
+            "--equations",
+            "1,1,1,1,2;1,1,1,1,0",
+            "--bundles",
+            bundles,
+            "--json",
+        ]);
+        assert_eq!(code, 0, "{err}");
+        assert!(err.contains("fails some consistency check"), "{err}");
+        let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+        let mut values = std::collections::HashMap::new();
+        for class in v["classes"].as_array().unwrap() {
+            if class["operator"] != operator {
+                continue;
+            }
+            for e in class["entries"].as_array().unwrap() {
+                let fields: Vec<String> = serde_json::from_value(e["fields"].clone()).unwrap();
+                let value: Option<num_rational::BigRational> = match e["status"].as_str().unwrap() {
+                    "value" => Some(e["value"].as_str().unwrap().parse().unwrap()),
+                    "zero_computed" => Some(num_traits::Zero::zero()),
+                    _ => None,
+                };
+                if let Some(x) = value {
+                    let types: u64 = e["types"]
+                        .as_array()
+                        .unwrap()
+                        .iter()
+                        .map(|t| t.as_u64().unwrap())
+                        .sum();
+                    if !num_traits::Zero::is_zero(&x) {
+                        assert!(types >= 2, "{operator}: {e}");
+                    }
+                    values.insert(fields, x);
+                }
+            }
+        }
+        let non_zero = values
+            .values()
+            .filter(|x| !num_traits::Zero::is_zero(*x))
+            .count();
+        assert!(non_zero > 0, "{operator} has no non-zero entry: {out}");
+        let mut pairs = 0;
+        for (fields, x) in &values {
+            let mut swapped = fields.clone();
+            swapped.swap(swap.0, swap.1);
+            if let Some(y) = values.get(&swapped).filter(|_| swapped != *fields) {
+                assert_eq!(*x, -y.clone(), "{operator}: {fields:?} against {swapped:?}");
+                pairs += usize::from(!num_traits::Zero::is_zero(x));
+            }
+        }
+        assert!(
+            pairs > 0,
+            "{operator}: no exchanged pair of non-zero entries to compare"
+        );
+    }
+}
+
 /// A model with a symbolic parameter: the values are rational functions of it (text and JSON with the
 /// coefficients), the reconstruction data and the special-value list are reported, and no warning says the
 /// functions are missing. The values themselves are checked against direct computations in

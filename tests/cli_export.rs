@@ -197,12 +197,110 @@ fn load_schema() -> Value {
     serde_json::from_str(&text).unwrap()
 }
 
+/// A model with a symbolic parameter: the export carries the whole family of polynomials (substituting
+/// `family.value` gives `equations` exactly) and the couplings as rational functions of the parameter, the same
+/// report as `couplings --json`; on the benchmark family some of them are not constant.
+#[test]
+fn family_models_export_polynomials_and_couplings_as_functions_of_the_parameter() {
+    let model = "benches/models/tetraquadric-psi-family.toml";
+    let (path, v) = export_json(model, &[], "family");
+    let fam = &v["polynomials"]["family"];
+    assert_eq!(fam["parameter"], "psi");
+    let t = rat(&fam["value"]);
+    assert_eq!(t, BigRational::new(1.into(), 2.into()));
+    let members = v["polynomials"]["equations"].as_array().unwrap();
+    let family = fam["equations"].as_array().unwrap();
+    assert_eq!(members.len(), family.len());
+    let mut parametric_terms = 0;
+    for (m, f) in members.iter().zip(family) {
+        assert_eq!(m["multidegree"], f["multidegree"]);
+        let want: HashMap<Vec<u32>, BigRational> = m["exponents"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .zip(m["coefficients"].as_array().unwrap())
+            .map(|(x, c)| (serde_json::from_value(x.clone()).unwrap(), rat(c)))
+            .collect();
+        let mut got = HashMap::new();
+        for (x, cs) in f["exponents"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .zip(f["coefficients"].as_array().unwrap())
+        {
+            let cs = cs.as_array().unwrap();
+            parametric_terms += usize::from(cs.len() > 1);
+            let at = cs
+                .iter()
+                .rev()
+                .fold(BigRational::zero(), |acc, c| acc * &t + rat(c));
+            if !at.is_zero() {
+                got.insert(serde_json::from_value::<Vec<u32>>(x.clone()).unwrap(), at);
+            }
+        }
+        assert_eq!(got, want);
+    }
+    assert!(parametric_terms > 0, "the family has psi-dependent terms");
+    let couplings = &v["couplings"];
+    assert_eq!(couplings["family"]["parameter"], "psi");
+    let tensors = couplings["family"]["tensors"].as_array().unwrap();
+    assert!(!tensors.is_empty());
+    for tensor in tensors {
+        assert_eq!(tensor["values"], "rational_functions", "{tensor}");
+        assert!(tensor["total_degree_bound"].as_u64().is_some());
+        assert_eq!(tensor["member_check"], "agrees");
+    }
+    let values: Vec<&Value> = couplings["classes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .flat_map(|c| c["entries"].as_array().unwrap())
+        .filter(|e| e["status"] == "value")
+        .collect();
+    assert!(!values.is_empty());
+    assert!(
+        values
+            .iter()
+            .all(|e| e["rational_function"]["parameter"] == "psi")
+    );
+    assert!(
+        values.iter().any(|e| e["rational_function"]["numerator"]
+            .as_array()
+            .unwrap()
+            .len()
+            > 1),
+        "some coupling depends on psi"
+    );
+    // the same textures as the couplings command
+    let (code, out, err) = sheafwright(&["couplings", model, "--json"]);
+    assert_eq!(code, 0, "{err}");
+    let direct: Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(couplings["classes"], direct["classes"]);
+    assert_eq!(couplings["family"], direct["family"]);
+    // the Python reader checks the family exactly, and fails on a changed family coefficient
+    if python3().is_none() {
+        return;
+    }
+    let (code, out) = run_reader(&path, &[]);
+    assert_eq!(code, 0, "{out}");
+    assert!(out.contains("reproduce the member exactly"), "{out}");
+    let mut bad = v.clone();
+    let first = &mut bad["polynomials"]["family"]["equations"][0]["coefficients"][0][0];
+    *first = (rat(first) + BigRational::one()).to_string().into();
+    let bad_path = out_dir("family-bad").join("bad.json");
+    std::fs::write(&bad_path, bad.to_string()).unwrap();
+    let (code, out) = run_reader(&bad_path, &[]);
+    assert_eq!(code, 1, "{out}");
+    assert!(out.contains("FAIL equation 1"), "{out}");
+}
+
 #[test]
 fn exports_validate_against_the_schema() {
     let schema = load_schema();
     for (model, tag) in [
         ("catalogs-demo/tetraquadric-a.toml", "schema-a"),
         ("catalogs-demo/split-c.toml", "schema-c"),
+        ("catalogs-demo/tetraquadric-psi.toml", "schema-psi"),
         ("catalogs-demo/tetraquadric-special.toml", "schema-s"),
     ] {
         let extra: &[&str] = if model.contains("special") {

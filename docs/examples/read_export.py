@@ -13,6 +13,10 @@ What it does (docs/export-schema.md, docs/representatives.md):
      to X is d-bar closed. In an affine chart a top-degree form on P^n is trivially closed; the homogeneous check
      is the one with content.
 
+  5. for a model with a symbolic parameter (`polynomials.family`): checks exactly (Fractions) that substituting
+     `family.value` into the family's coefficients gives `polynomials.equations`, and evaluates the couplings'
+     rational functions of the parameter exactly at the member.
+
 Tolerance: step h = 1e-5 (relative to the point), and a residual at most TOL = 1e-6 times the largest single
 derivative term (the central-difference error is O(h^2) ~ 1e-10 relative, rounding ~ 1e-11).
 
@@ -261,6 +265,52 @@ def solve(a, b):
     return [m[i][n] / m[i][i] for i in range(n)]
 
 
+def eval_ascending(coefficients, t):
+    """An exact polynomial in one variable (ascending exact coefficient strings) at the Fraction t."""
+    acc = Fraction(0)
+    for c in reversed(coefficients):
+        acc = acc * t + exact(c)
+    return acc
+
+
+def coupling_at(entry, t):
+    """The exact value of a coupling entry at parameter value t (None for a pole or no rational function)."""
+    f = entry.get("rational_function")
+    if f is None:
+        return None
+    den = eval_ascending(f["denominator"], t)
+    return None if den == 0 else eval_ascending(f["numerator"], t) / den
+
+
+def check_family(data):
+    """Exact family checks; returns the number of failures (0 without a family)."""
+    fam = data["polynomials"].get("family")
+    if fam is None:
+        return 0
+    t = exact(fam["value"])
+    failures = 0
+    for j, (member, poly) in enumerate(zip(data["polynomials"]["equations"], fam["equations"])):
+        want = {tuple(e): exact(c) for e, c in zip(member["exponents"], member["coefficients"])}
+        got = {}
+        for e, cs in zip(poly["exponents"], poly["coefficients"]):
+            v = eval_ascending(cs, t)
+            if v != 0:
+                got[tuple(e)] = v
+        if got != want:
+            failures += 1
+            print(f"FAIL equation {j + 1}: the family at {fam['parameter']} = {fam['value']} is not the member")
+    entries = [e for c in data.get("couplings", {}).get("classes", []) for e in c["entries"]
+               if e.get("rational_function") is not None]
+    varying = sum(1 for e in entries if len(e["rational_function"]["numerator"]) > 1
+                  or len(e["rational_function"]["denominator"]) > 1)
+    at_member = sum(1 for e in entries if coupling_at(e, t) is not None)
+    print(f"family {fam['parameter']}: {len(fam['equations'])} polynomial(s) at {fam['parameter']} = {fam['value']} "
+          f"{'reproduce' if failures == 0 else 'do NOT reproduce'} the member exactly; {len(entries)} coupling "
+          f"entries are rational functions of {fam['parameter']} ({varying} not constant, {at_member} finite at "
+          f"the member)")
+    return failures
+
+
 def main(argv):
     if len(argv) < 2:
         print(__doc__)
@@ -274,11 +324,12 @@ def main(argv):
     except (OSError, ValueError, KeyError) as e:
         print(f"error: {path}: {e}")
         return 2
+    family_failures = check_family(exp.data)
     rng = random.Random(20261202)
     classes = [(m["label"], i, c) for m in exp.data["multiplets"] for i, c in enumerate(m["classes"])]
     if not classes:
         print("no classes in this export")
-        return 0
+        return 1 if family_failures else 0
     if not check_all:
         classes = classes[:1]
     failures = 0
@@ -328,7 +379,7 @@ def main(argv):
                       f"off X mismatch with the Koszul term {off_x:.3e}, horizontal {horizontal}")
     print(f"checked {checked} partition-of-unity forms on X: worst relative dbar residual {worst_on:.2e}, "
           f"worst off-X mismatch {worst_off:.2e} (tolerance {TOL:g})")
-    return 1 if failures else 0
+    return 1 if failures or family_failures else 0
 
 
 if __name__ == "__main__":

@@ -69,9 +69,22 @@ pub fn run(a: CouplingsArgs) -> Result<String, UserError> {
     }
 }
 
+/// The model's one-parameter family, when it names a symbolic parameter and its given polynomials are used
+/// (the engine then holds the member at `parameter_value`); `None` otherwise.
+pub fn model_family<'a>(inputs: &'a Inputs, poly: &PolyArgs) -> Option<ParameterFamily<'a>> {
+    let p = inputs.model().and_then(|m| m.parameter())?;
+    matches!(poly.effective_mode(inputs), Ok(PolynomialMode::Given)).then(|| ParameterFamily {
+        config: inputs.config(),
+        parameter: &p.name,
+        polynomials: &p.polynomials,
+        member: p.value.clone(),
+        options: ParametricOptions::default(),
+    })
+}
+
 /// The couplings of the model: with a symbolic parameter and the given polynomials, every value as an exact
-/// rational function of the parameter ([`couplings_in_family`], the engine holding the member at
-/// `parameter_value`); with `--mode generic` the parameter plays no role and a warning says so.
+/// rational function of the parameter ([`couplings_in_family`] over [`model_family`]); with `--mode generic`
+/// the parameter plays no role and a warning says so.
 pub fn model_couplings(
     inputs: &Inputs,
     poly: &PolyArgs,
@@ -79,29 +92,17 @@ pub fn model_couplings(
     sum: &BundleSum,
     options: &CouplingOptions,
 ) -> Result<CouplingReport, TextureError> {
-    let parameter = inputs.model().and_then(|m| m.parameter());
-    let given = matches!(poly.effective_mode(inputs), Ok(PolynomialMode::Given));
-    match parameter {
-        Some(p) if given => {
-            let family = ParameterFamily {
-                config: inputs.config(),
-                parameter: &p.name,
-                polynomials: &p.polynomials,
-                member: p.value.clone(),
-                options: ParametricOptions::default(),
-            };
-            couplings_in_family(engine, sum, options, &family)
-        }
-        Some(p) => {
-            let mut report = couplings(engine, sum, options)?;
-            report.warnings.push(format!(
-                "the model names the parameter {}, but these values are for a generic member (--mode generic), not the model's family",
-                p.name
-            ));
-            Ok(report)
-        }
-        None => couplings(engine, sum, options),
+    if let Some(family) = model_family(inputs, poly) {
+        return couplings_in_family(engine, sum, options, &family);
     }
+    let mut report = couplings(engine, sum, options)?;
+    if let Some(p) = inputs.model().and_then(|m| m.parameter()) {
+        report.warnings.push(format!(
+            "the model names the parameter {}, but these values are for a generic member (--mode generic), not the model's family",
+            p.name
+        ));
+    }
+    Ok(report)
 }
 
 const LEGEND: &str = "legend: · forbidden_by_charge   * value (non-zero, shown in full by `couplings`)   τ vanishes_by_type (τ1+τ2+τ3 < K)   0 zero_computed   + allowed_by_charge (no holomorphic value)   ? not_computed   numbers: exact values";

@@ -57,8 +57,15 @@ pub fn run(
         .to_vec();
     let sum = super::args::bundle_sum(&inputs, None)?;
     let analysis = analysis::analyse(&engine, &sum)?;
-    let export: Export =
-        build_export(inputs.name(), &engine, &analysis, &line_bundles, with_duals)?;
+    let family = super::couplings::model_family(&inputs, poly);
+    let export: Export = build_export(
+        inputs.name(),
+        &engine,
+        &analysis,
+        &line_bundles,
+        with_duals,
+        family.as_ref(),
+    )?;
     let bytes = match format {
         "json" => {
             let mut s = serde_json::to_string(&export)?;

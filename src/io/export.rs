@@ -53,6 +53,29 @@ pub struct ExportPolynomials {
     pub mode: String,
     pub seed: Option<u64>,
     pub equations: Vec<ExportPolynomial>,
+    /// For a model with a symbolic parameter: the whole family, of which `equations` is the member at
+    /// `family.value`. Absent otherwise.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub family: Option<ExportFamilyPolynomials>,
+}
+
+/// A one-parameter family of polynomials: every coefficient a polynomial in the parameter.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
+pub struct ExportFamilyPolynomials {
+    /// The parameter's name (e.g. `psi`).
+    pub parameter: String,
+    /// The member held in [`ExportPolynomials::equations`] (exact rational as a string).
+    pub value: String,
+    pub equations: Vec<ExportFamilyPolynomial>,
+}
+
+/// One polynomial of a family: per term the exponent array and the coefficient as a polynomial in the
+/// parameter (exact rationals as strings, ascending powers, `[c_0, c_1, …]`).
+#[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
+pub struct ExportFamilyPolynomial {
+    pub multidegree: Vec<u32>,
+    pub exponents: Vec<Vec<u32>>,
+    pub coefficients: Vec<Vec<String>>,
 }
 
 /// The configuration and its variables.
@@ -166,7 +189,10 @@ pub struct Export {
     /// ([`super::face_forms`]): one row per distinct `(n, m, face)`.
     pub face_forms: Vec<ExportFaceForm>,
     /// The coupling textures ([`crate::couplings::couplings`]): statuses, exact values, ranks, relations. Entry
-    /// fields `"<label>#<n>"` name `multiplets[label].classes[n−1]` (the same basis). Absent when refused.
+    /// fields `"<label>#<n>"` name `multiplets[label].classes[n−1]` (the same basis). With a family
+    /// ([`build_export`]'s `family`), every computed value is a rational function of the parameter
+    /// ([`crate::couplings::couplings_in_family`]) and `couplings.family` holds the reconstruction data.
+    /// Absent when refused.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub couplings: Option<crate::couplings::CouplingReport>,
     /// Why `couplings` is absent (e.g. a lift too large).
@@ -297,13 +323,15 @@ fn export_class(c: ClassRepresentative, k: &[i64], equations: &[Vec<u32>]) -> Ex
 
 /// Assemble the export of an analysed model. `model` is the model's name. Representatives are computed for
 /// every present multiplet (once per distinct line bundle); with `with_duals` also a basis of `H^2(X, L^*)` for
-/// each multiplet's `L`.
+/// each multiplet's `L`. With `family` (whose member at `family.member` is the engine's), the polynomials of the
+/// whole family are exported and the couplings are rational functions of its parameter.
 pub fn build_export(
     model: &str,
     engine: &CohomologyEngine,
     analysis: &ModelAnalysis,
     line_bundles: &[Vec<i64>],
     with_duals: bool,
+    family: Option<&crate::couplings::texture::ParameterFamily>,
 ) -> Result<Export, CohomologyError> {
     let config = engine.config();
     let layout = VariableLayout::new(config.dims());
@@ -330,6 +358,31 @@ pub fn build_export(
                 }
             })
             .collect(),
+        family: family.map(|f| ExportFamilyPolynomials {
+            parameter: f.parameter.to_string(),
+            value: f.member.to_string(),
+            equations: f
+                .polynomials
+                .iter()
+                .zip(config.equations())
+                .map(|(p, q)| {
+                    let (exponents, coefficients) = p
+                        .terms()
+                        .map(|(e, c)| {
+                            (
+                                e.clone(),
+                                c.coeffs().iter().map(|x| x.to_string()).collect(),
+                            )
+                        })
+                        .unzip();
+                    ExportFamilyPolynomial {
+                        multidegree: q.clone(),
+                        exponents,
+                        coefficients,
+                    }
+                })
+                .collect(),
+        }),
     };
     let mut reps: HashMap<Vec<i64>, Vec<ClassRepresentative>> = HashMap::new();
     let mut classes_of = |k: &[i64], degree: usize| -> Result<Vec<ExportClass>, CohomologyError> {
@@ -388,14 +441,17 @@ pub fn build_export(
     };
     let (couplings, couplings_error) =
         match crate::bundle::BundleSum::new(config.num_factors(), line_bundles.to_vec()) {
-            Ok(sum) => match crate::couplings::couplings(
-                engine,
-                &sum,
-                &crate::couplings::CouplingOptions::default(),
-            ) {
-                Ok(r) => (Some(r), None),
-                Err(e) => (None, Some(e.to_string())),
-            },
+            Ok(sum) => {
+                let options = crate::couplings::CouplingOptions::default();
+                let report = match family {
+                    Some(f) => crate::couplings::couplings_in_family(engine, &sum, &options, f),
+                    None => crate::couplings::couplings(engine, &sum, &options),
+                };
+                match report {
+                    Ok(r) => (Some(r), None),
+                    Err(e) => (None, Some(e.to_string())),
+                }
+            }
             Err(e) => (None, Some(e.to_string())),
         };
     Ok(Export {
