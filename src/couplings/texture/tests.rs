@@ -1,9 +1,11 @@
 //! Tests of the texture layer: structural rank against a brute-force twin, exact rank and relations on
 //! matrices of known structure, and the statuses of the invented demo models.
 
+use super::build::finish;
 use super::*;
 use crate::cohomology::PolynomialChoice;
 use crate::io::model::Model;
+use num_traits::Zero;
 use proptest::prelude::*;
 use std::path::Path;
 
