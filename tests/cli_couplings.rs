@@ -152,6 +152,57 @@ fn rank_five_codimension_two_sum_has_non_zero_allowed_entries() {
     assert!(non_zero > 0, "{out}");
 }
 
+/// A tensor whose lift is above the term limit is refused with the size named (as the texture's warning), its
+/// entries become `not_computed`, and everything else is unchanged; the default limit computes the same
+/// entries as values or computed zeros.
+#[test]
+fn lift_above_the_term_limit_is_refused_naming_its_size() {
+    let model = "catalogs-demo/tetraquadric-a.toml";
+    let full = json(&["couplings", model, "--json"]);
+    let limited = json(&["couplings", model, "--json", "--max-terms", "100"]);
+    let statuses = |v: &serde_json::Value| -> Vec<(String, String)> {
+        v["classes"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .flat_map(|c| c["entries"].as_array().unwrap())
+            .map(|e| {
+                (
+                    e["fields"].to_string(),
+                    e["status"].as_str().unwrap().to_string(),
+                )
+            })
+            .collect()
+    };
+    let (a, b) = (statuses(&full), statuses(&limited));
+    assert_eq!(a.len(), b.len());
+    let mut refused = 0;
+    for ((fa, sa), (fb, sb)) in a.iter().zip(&b) {
+        assert_eq!(fa, fb);
+        if sa != sb {
+            assert!(sa == "value" || sa == "zero_computed", "{fa}: {sa} -> {sb}");
+            assert_eq!(sb, "not_computed", "{fa}");
+            refused += 1;
+        }
+    }
+    assert!(refused > 0, "the limit 100 refuses some tensor of {model}");
+    let warnings: Vec<String> = limited["classes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .flat_map(|c| c["warnings"].as_array().into_iter().flatten())
+        .map(|w| w.as_str().unwrap().to_string())
+        .collect();
+    assert!(
+        warnings
+            .iter()
+            .any(|w| w.contains("Čech–Koszul terms, above the limit 100")
+                && w.contains("has at least")),
+        "{warnings:?}"
+    );
+    assert_refused(&["couplings", model, "--max-terms", "0"], "--max-terms 0");
+}
+
 /// Rank-5 sums on the same codimension-2 configuration (invented; found by a seeded random search over c1 = 0
 /// sums, both fail the consistency checks and are computed with a warning) whose *cubic matter* couplings are
 /// non-zero: up-type `10 10 5` for the first, down-type `5bar 10 5bar` for the second. Every non-zero entry has

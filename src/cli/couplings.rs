@@ -23,6 +23,7 @@ pub struct CouplingsArgs {
     pub poly: PolyArgs,
     pub bundles: Option<String>,
     pub singlets: usize,
+    pub max_terms: usize,
     pub timing: bool,
     pub json: bool,
 }
@@ -32,9 +33,15 @@ pub fn run(a: CouplingsArgs) -> Result<String, UserError> {
     let inputs = Inputs::from_args(&a.config)?;
     let engine = a.poly.engine(&inputs)?;
     let sum = super::args::bundle_sum(&inputs, a.bundles.as_deref())?;
+    if a.max_terms == 0 {
+        return Err(UserError(
+            "--max-terms 0: the limit on Čech–Koszul terms must be at least 1".into(),
+        ));
+    }
     let options = CouplingOptions {
         singlets: a.singlets,
         values: true,
+        max_cochain_terms: a.max_terms,
     };
     let started = std::time::Instant::now();
     let report = model_couplings(&inputs, &a.poly, &engine, &sum, &options)?;

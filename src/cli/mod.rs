@@ -120,6 +120,10 @@ enum Command {
         /// For forbidden entries, list the products of up to N present singlets that would allow them.
         #[arg(long, default_value_t = 0, value_name = "N")]
         singlets: usize,
+        /// Refuse (with its size, as a warning) any Yukawa tensor whose lifted cocycles or cup products need
+        /// more than N Čech–Koszul terms; its entries are then not_computed.
+        #[arg(long, default_value_t = sheafwright::couplings::MAX_COCHAIN_TERMS, value_name = "N")]
+        max_terms: usize,
         /// Print per-operator timings on stderr.
         #[arg(long)]
         timing: bool,
@@ -284,6 +288,7 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
             poly,
             bundles,
             singlets,
+            max_terms,
             timing,
             json,
         } => couplings::run(couplings::CouplingsArgs {
@@ -291,6 +296,7 @@ fn dispatch(cli: Cli) -> Result<String, UserError> {
             poly,
             bundles,
             singlets,
+            max_terms,
             timing,
             json,
         }),

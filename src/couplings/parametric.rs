@@ -210,6 +210,8 @@ pub struct FamilyMembers<'p> {
     config: &'p Configuration,
     polys: &'p [ParametricPolynomial],
     members: Mutex<HashMap<BigRational, Arc<Member>>>,
+    /// The coupling engines' term limit ([`CouplingEngine::with_term_limit`]).
+    term_limit: usize,
 }
 
 enum Member {
@@ -224,7 +226,14 @@ impl<'p> FamilyMembers<'p> {
             config,
             polys,
             members: Mutex::new(HashMap::new()),
+            term_limit: super::value::MAX_COCHAIN_TERMS,
         }
+    }
+
+    /// The same cache with every member's coupling engine limited to `limit` Čech–Koszul terms.
+    pub fn with_term_limit(mut self, limit: usize) -> Self {
+        self.term_limit = limit;
+        self
     }
 
     /// Number of members built so far.
@@ -243,10 +252,13 @@ impl<'p> FamilyMembers<'p> {
         }
         let member = Arc::new(match specialise(self.config, self.polys, t) {
             Err(m) => Member::Degenerate(m),
-            Ok(given) => Member::Computed(CouplingEngine::owning(CohomologyEngine::new(
-                self.config,
-                PolynomialChoice::Given(given),
-            )?)),
+            Ok(given) => Member::Computed(
+                CouplingEngine::owning(CohomologyEngine::new(
+                    self.config,
+                    PolynomialChoice::Given(given),
+                )?)
+                .with_term_limit(self.term_limit),
+            ),
         });
         if let Ok(mut m) = self.members.lock() {
             m.insert(t.clone(), member.clone());

@@ -318,6 +318,9 @@ pub struct CouplingOptions {
     pub singlets: usize,
     /// Compute exact values (otherwise allowed entries not vanishing by type are `not_computed`).
     pub values: bool,
+    /// Largest lifted cocycle or cup product (Čech–Koszul terms) computed; a tensor needing more is refused
+    /// with its size in the texture's `warnings` and its entries are `not_computed`.
+    pub max_cochain_terms: usize,
 }
 
 impl Default for CouplingOptions {
@@ -325,6 +328,7 @@ impl Default for CouplingOptions {
         CouplingOptions {
             singlets: 0,
             values: true,
+            max_cochain_terms: super::value::MAX_COCHAIN_TERMS,
         }
     }
 }
@@ -436,14 +440,16 @@ fn couplings_with(
             charge: m.charge.clone(),
         })
         .collect();
-    let coupling_engine = CouplingEngine::new(engine);
+    let coupling_engine = CouplingEngine::new(engine).with_term_limit(options.max_cochain_terms);
     let mut types_cache: std::collections::HashMap<Vec<i64>, Vec<usize>> = Default::default();
     let mut operators = Vec::new();
     let mut classes = Vec::new();
     let mut timings = Vec::new();
     let mut all_forbidden_textures = 0;
     let mut summary = family.map(FamilySummary::new);
-    let members = family.map(|f| FamilyMembers::new(f.config, f.polynomials));
+    let members = family.map(|f| {
+        FamilyMembers::new(f.config, f.polynomials).with_term_limit(options.max_cochain_terms)
+    });
     for op in enumerate_operators(group) {
         let started = Instant::now();
         operators.push(summarise(&op, &spectrum)?);

@@ -51,7 +51,7 @@ pub enum CouplingError {
         sum: Vec<i64>,
     },
     #[error(
-        "the {what} for bundles {bundles:?} has {size} Čech–Koszul terms, above the limit {limit}; too large to compute"
+        "the {what} for bundles {bundles:?} has at least {size} Čech–Koszul terms, above the limit {limit}; too large to compute"
     )]
     TooLarge {
         what: String,
@@ -164,15 +164,8 @@ pub struct CouplingEngine<'a> {
     norm: OnceLock<Result<Arc<Normalisation>, CouplingError>>,
     /// Memo of the linear functional `φ(key) = f(π'(key))` on single Čech–Koszul terms of `O_X`.
     functional: Mutex<HashMap<CechKey, BigRational>>,
-}
-
-fn too_large(what: &str, bundles: &[&[i64]], size: usize) -> CouplingError {
-    CouplingError::TooLarge {
-        what: what.to_string(),
-        bundles: bundles.iter().map(|b| b.to_vec()).collect(),
-        size,
-        limit: MAX_COCHAIN_TERMS,
-    }
+    /// Largest lift or product computed ([`MAX_COCHAIN_TERMS`] unless set by [`CouplingEngine::with_term_limit`]).
+    term_limit: usize,
 }
 
 /// Parity of `#{(s, t) : s ∈ S, t ∈ T, s > t}`: the sign of `e_S ∧ e_T` against `e_{S∪T}`.
@@ -289,6 +282,23 @@ impl<'a> CouplingEngine<'a> {
             bases: Mutex::new(HashMap::default()),
             norm: OnceLock::new(),
             functional: Mutex::new(HashMap::default()),
+            term_limit: MAX_COCHAIN_TERMS,
+        }
+    }
+
+    /// The same engine refusing every lift and cup product above `limit` Čech–Koszul terms.
+    pub fn with_term_limit(mut self, limit: usize) -> Self {
+        self.term_limit = limit;
+        self
+    }
+
+    /// The refusal of a cochain of (at least) `size` terms.
+    fn too_large(&self, what: &str, bundles: &[&[i64]], size: usize) -> CouplingError {
+        CouplingError::TooLarge {
+            what: what.to_string(),
+            bundles: bundles.iter().map(|b| b.to_vec()).collect(),
+            size,
+            limit: self.term_limit,
         }
     }
 
@@ -320,8 +330,8 @@ impl<'a> CouplingEngine<'a> {
             let mut lifts = Vec::with_capacity(classes.len());
             for c in &classes {
                 let l = cx.lift(q, &c.vector);
-                if l.len() > MAX_COCHAIN_TERMS {
-                    return Err(too_large("lifted cocycle", &[k], l.len()));
+                if l.len() > self.term_limit {
+                    return Err(self.too_large("lifted cocycle", &[k], l.len()));
                 }
                 lifts.push(l);
             }
@@ -359,8 +369,8 @@ impl<'a> CouplingEngine<'a> {
             }
         }
         let l = cx.lift(q, v);
-        if l.len() > MAX_COCHAIN_TERMS {
-            return Err(too_large("lifted cocycle", &[k], l.len()));
+        if l.len() > self.term_limit {
+            return Err(self.too_large("lifted cocycle", &[k], l.len()));
         }
         Ok(l)
     }
@@ -516,10 +526,10 @@ impl<'a> CouplingEngine<'a> {
         &self,
         cocycles: [&Cochain<BigRational>; 3],
     ) -> Result<BigRational, CouplingError> {
-        let ab = cup_product(cocycles[0], cocycles[1], MAX_COCHAIN_TERMS)
-            .ok_or_else(|| too_large("pairwise cup product", &[], MAX_COCHAIN_TERMS + 1))?;
-        let z = cup_product(&ab, cocycles[2], MAX_COCHAIN_TERMS)
-            .ok_or_else(|| too_large("triple cup product", &[], MAX_COCHAIN_TERMS + 1))?;
+        let ab = cup_product(cocycles[0], cocycles[1], self.term_limit)
+            .ok_or_else(|| self.too_large("pairwise cup product", &[], self.term_limit + 1))?;
+        let z = cup_product(&ab, cocycles[2], self.term_limit)
+            .ok_or_else(|| self.too_large("triple cup product", &[], self.term_limit + 1))?;
         self.top_coefficient(&z)
     }
 
@@ -563,8 +573,8 @@ impl<'a> CouplingEngine<'a> {
         if dims.iter().all(|&d| d > 0) {
             for a in &bases[0].lifts {
                 for b in &bases[1].lifts {
-                    let ab = cup_product(a, b, MAX_COCHAIN_TERMS).ok_or_else(|| {
-                        too_large("pairwise cup product", &bundles[..2], MAX_COCHAIN_TERMS + 1)
+                    let ab = cup_product(a, b, self.term_limit).ok_or_else(|| {
+                        self.too_large("pairwise cup product", &bundles[..2], self.term_limit + 1)
                     })?;
                     for c in &bases[2].lifts {
                         values.push(self.value_of_product(&ab, c)?);
@@ -607,8 +617,9 @@ impl<'a> CouplingEngine<'a> {
         for x in &a.lifts {
             let mut row = Vec::with_capacity(b.lifts.len());
             for y in &b.lifts {
-                let z = cup_product(x, y, MAX_COCHAIN_TERMS)
-                    .ok_or_else(|| too_large("cup product", &[k, &dual], MAX_COCHAIN_TERMS + 1))?;
+                let z = cup_product(x, y, self.term_limit).ok_or_else(|| {
+                    self.too_large("cup product", &[k, &dual], self.term_limit + 1)
+                })?;
                 row.push(self.top_coefficient(&z)?);
             }
             out.push(row);

@@ -327,7 +327,7 @@ fn so10_demo_values_and_ranks() {
         &sum,
         &CouplingOptions {
             singlets: 1,
-            values: true,
+            ..CouplingOptions::default()
         },
     )
     .unwrap();
@@ -371,7 +371,7 @@ fn too_many_singlets_refused() {
         &sum,
         &CouplingOptions {
             singlets: 9,
-            values: true,
+            ..CouplingOptions::default()
         },
     )
     .unwrap_err();
