@@ -207,8 +207,10 @@ fn lift_above_the_term_limit_is_refused_naming_its_size() {
 /// sums, both fail the consistency checks and are computed with a warning) whose *cubic matter* couplings are
 /// non-zero: up-type `10 10 5` for the first, down-type `5bar 10 5bar` for the second. Every non-zero entry has
 /// type sum ≥ K = 2 (the vanishing theorem, from memory: Blesneag, Buchbinder, Lukas, JHEP 2017), and the
-/// separately computed tensor with two slots exchanged gives the opposite value (graded antisymmetry of the cup
-/// product of three degree-1 classes, common practice).
+/// entry with two slots exchanged has the opposite value (graded antisymmetry of the cup product of three
+/// degree-1 classes, common practice; the textures derive the exchanged tensor with `YukawaTensor::permuted`,
+/// which `tests/couplings_invariants.rs` checks against direct computations — here the labels of the derived
+/// entries are checked).
 #[test]
 fn codimension_two_sums_have_non_zero_cubic_matter_couplings() {
     for (bundles, operator, swap) in [

@@ -317,6 +317,27 @@ fn swapping_two_slots_changes_the_sign_and_cycling_does_not() {
             }
         }
     }
+    // The textures derive permuted triples from computed ones with `YukawaTensor::permuted`: it must
+    // reproduce the direct computations exactly (index mapping and sign).
+    assert_eq!(a.permuted([1, 0, 2]), swapped);
+    assert_eq!(a.permuted([1, 2, 0]), cycled);
+}
+
+/// Graded antisymmetry in codimension two, on a triple with non-zero values at type sum K = 2: every
+/// permutation of the slots computed directly equals `permuted` of the first (sign of the permutation).
+#[test]
+fn permuted_tensors_match_direct_computations_in_codimension_two() {
+    let e = codim2();
+    let ce = CouplingEngine::new(&e);
+    let t = CODIM2_HIGH;
+    let a = ce.yukawa_tensor([&t[0], &t[1], &t[2]]).unwrap();
+    assert!(!a.is_zero());
+    for perm in [[1, 0, 2], [2, 1, 0], [0, 2, 1], [1, 2, 0], [2, 0, 1]] {
+        let direct = ce
+            .yukawa_tensor([&t[perm[0]], &t[perm[1]], &t[perm[2]]])
+            .unwrap();
+        assert_eq!(a.permuted(perm), direct, "{perm:?}");
+    }
 }
 
 fn scaled_polys(polys: &[Polynomial], c: &BigRational) -> Vec<Polynomial> {

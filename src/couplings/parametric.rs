@@ -136,6 +136,26 @@ pub struct ParametricYukawa {
 }
 
 impl ParametricYukawa {
+    /// The tensor of the permuted triple, as [`YukawaTensor::permuted`] (slot `s` of the result is slot
+    /// `perm[s]`; the sign of the permutation multiplies every function). The reconstruction data are kept.
+    pub fn permuted(&self, perm: [usize; 3]) -> ParametricYukawa {
+        let (dims, values) =
+            super::value::permute_tensor(self.dims, &self.values, perm, RationalFunction::neg);
+        ParametricYukawa {
+            bundles: perm.map(|p| self.bundles[p].clone()),
+            dims,
+            types: perm.map(|p| self.types[p].clone()),
+            values,
+            parameter: self.parameter.clone(),
+            total_degree_bound: self.total_degree_bound,
+            max_degrees: self.max_degrees,
+            interpolation_points: self.interpolation_points.clone(),
+            check_points: self.check_points.clone(),
+            special_values: self.special_values.clone(),
+            unlocated_denominators: self.unlocated_denominators.clone(),
+        }
+    }
+
     /// The entry `λ(i, j, l)`. **Panics** when an index is out of range.
     pub fn get(&self, i: usize, j: usize, l: usize) -> &RationalFunction {
         assert!(i < self.dims[0] && j < self.dims[1] && l < self.dims[2]);

@@ -102,6 +102,57 @@ impl YukawaTensor {
     pub fn is_zero(&self) -> bool {
         self.values.iter().all(|v| v.is_zero())
     }
+
+    /// The tensor of the permuted triple: slot `s` of the result is slot `perm[s]` of `self`, and every value
+    /// is multiplied by the sign of the permutation — the graded antisymmetry of the cup product of three
+    /// degree-1 classes, `λ(ν_σ(1), ν_σ(2), ν_σ(3)) = sgn(σ) λ(ν_1, ν_2, ν_3)` (checked against direct
+    /// computations in `tests/couplings_invariants.rs`). **Panics** unless `perm` is a permutation of 0..3.
+    pub fn permuted(&self, perm: [usize; 3]) -> YukawaTensor {
+        let (dims, values) = permute_tensor(self.dims, &self.values, perm, |x| -x);
+        YukawaTensor {
+            bundles: perm.map(|p| self.bundles[p].clone()),
+            dims,
+            types: perm.map(|p| self.types[p].clone()),
+            values,
+            normalisation: self.normalisation.clone(),
+        }
+    }
+}
+
+/// Whether `perm` (a permutation of 0..3) is odd: a transposition fixes exactly one slot.
+pub(crate) fn is_odd_permutation(perm: [usize; 3]) -> bool {
+    let mut seen = [false; 3];
+    for &p in &perm {
+        assert!(p < 3 && !seen[p], "not a permutation of 0..3: {perm:?}");
+        seen[p] = true;
+    }
+    (0..3).filter(|&s| perm[s] == s).count() == 1
+}
+
+/// A row-major three-slot tensor with its slots permuted (slot `s` of the result is slot `perm[s]` of the
+/// input), each value passed through `negate` when the permutation is odd.
+pub(crate) fn permute_tensor<T: Clone>(
+    dims: [usize; 3],
+    values: &[T],
+    perm: [usize; 3],
+    negate: impl Fn(&T) -> T,
+) -> ([usize; 3], Vec<T>) {
+    let odd = is_odd_permutation(perm);
+    let out_dims = perm.map(|p| dims[p]);
+    let mut out = Vec::with_capacity(values.len());
+    let mut index = [0usize; 3];
+    for a in 0..out_dims[0] {
+        for b in 0..out_dims[1] {
+            for c in 0..out_dims[2] {
+                for (s, x) in [a, b, c].into_iter().enumerate() {
+                    index[perm[s]] = x;
+                }
+                let v = &values[(index[0] * dims[1] + index[1]) * dims[2] + index[2]];
+                out.push(if odd { negate(v) } else { v.clone() });
+            }
+        }
+    }
+    (out_dims, out)
 }
 
 /// The canonical basis of `H^q(X, O_X(k))` with its lifted cocycles.

@@ -139,6 +139,8 @@ impl Cubic<'_> {
         check_side(op, "column", cols.labels.len())?;
         let mut tensors: std::collections::HashMap<[String; 3], FamilyValues> = Default::default();
         let mut warned: Vec<String> = Vec::new();
+        // Tensors computed by the engine (not derived by a permutation).
+        let mut computed_tensors = 0usize;
         let mut out = Vec::new();
         for (h, (hm, hi)) in choices.classes.iter().enumerate() {
             let mut entries = Vec::new();
@@ -200,24 +202,36 @@ impl Cubic<'_> {
                                 cm.line_bundle.as_slice(),
                                 hm.line_bundle.as_slice(),
                             ];
-                            let computed = match self.family {
-                                None => self
-                                    .coupling_engine
-                                    .yukawa_tensor(triple)
-                                    .map(|t| FamilyValues::Member(Box::new(t))),
-                                Some((f, members)) => family_tensor(
-                                    f,
-                                    members,
-                                    self.coupling_engine,
-                                    [&key[0], &key[1], &key[2]],
-                                    triple,
-                                )
-                                .map(|(v, record)| {
+                            let computed = match derivable(&tensors, &key) {
+                                // graded antisymmetry: a permutation of an already computed triple
+                                Some((source, perm)) => {
                                     if let Some(s) = summary.as_deref_mut() {
-                                        s.push(record);
+                                        s.push_permuted(&source, perm);
                                     }
-                                    v
-                                }),
+                                    Ok(tensors[&source].permuted(perm))
+                                }
+                                None => {
+                                    computed_tensors += 1;
+                                    match self.family {
+                                        None => self
+                                            .coupling_engine
+                                            .yukawa_tensor(triple)
+                                            .map(|t| FamilyValues::Member(Box::new(t))),
+                                        Some((f, members)) => family_tensor(
+                                            f,
+                                            members,
+                                            self.coupling_engine,
+                                            [&key[0], &key[1], &key[2]],
+                                            triple,
+                                        )
+                                        .map(|(v, record)| {
+                                            if let Some(s) = summary.as_deref_mut() {
+                                                s.push(record);
+                                            }
+                                            v
+                                        }),
+                                    }
+                                }
                             };
                             match computed {
                                 Ok(t) => {
@@ -269,7 +283,7 @@ impl Cubic<'_> {
                 warnings,
             ));
         }
-        Ok((out, tensors.len()))
+        Ok((out, computed_tensors))
     }
 }
 
@@ -277,6 +291,25 @@ fn push_unique(v: &mut Vec<String>, s: String) {
     if !v.contains(&s) {
         v.push(s);
     }
+}
+
+/// An already computed tensor whose slots, permuted by `perm` (slot `s` of `key` is slot `perm[s]` of the
+/// source), give `key` — its values then follow by graded antisymmetry ([`YukawaTensor::permuted`]).
+///
+/// [`YukawaTensor::permuted`]: crate::couplings::value::YukawaTensor::permuted
+fn derivable(
+    tensors: &std::collections::HashMap<[String; 3], FamilyValues>,
+    key: &[String; 3],
+) -> Option<([String; 3], [usize; 3])> {
+    const PERMUTATIONS: [[usize; 3]; 5] = [[1, 0, 2], [2, 1, 0], [0, 2, 1], [1, 2, 0], [2, 0, 1]];
+    PERMUTATIONS.iter().find_map(|&perm| {
+        // source[perm[s]] = key[s]
+        let mut source = key.clone();
+        for s in 0..3 {
+            source[perm[s]] = key[s].clone();
+        }
+        (source != *key && tensors.contains_key(&source)).then_some((source, perm))
+    })
 }
 
 pub(super) fn finish(

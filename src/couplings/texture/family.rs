@@ -110,6 +110,27 @@ impl FamilySummary {
         }
     }
 
+    /// Record the tensor of a permuted triple derived from the recorded tensor `source` (slot `s` is slot
+    /// `perm[s]` of the source): the same reconstruction data, permuted slots and a note saying so.
+    pub(super) fn push_permuted(&mut self, source: &[String; 3], perm: [usize; 3]) {
+        let Some(t) = self.tensors.iter().find(|t| t.fields == source.as_slice()) else {
+            return;
+        };
+        let mut derived = t.clone();
+        derived.fields = perm.iter().map(|&p| t.fields[p].clone()).collect();
+        derived.bundles = perm.iter().map(|&p| t.bundles[p].clone()).collect();
+        derived.dims = perm.iter().map(|&p| t.dims[p]).collect();
+        let how = format!(
+            "derived from the tensor {} by graded antisymmetry (permuting the slots multiplies every value by the permutation's sign)",
+            source.join(" ")
+        );
+        derived.note = Some(match derived.note {
+            Some(n) => format!("{how}; {n}"),
+            None => how,
+        });
+        self.push(derived);
+    }
+
     /// Record a tensor and merge its special values and unlocated denominators into the model's lists.
     pub(super) fn push(&mut self, t: FamilyTensor) {
         let name = t.fields.join(" ");
@@ -149,6 +170,16 @@ pub(super) enum FamilyValues {
     Functions(Box<ParametricYukawa>),
     /// The member's exact values.
     Member(Box<YukawaTensor>),
+}
+
+impl FamilyValues {
+    /// The values of the permuted triple (slot `s` is slot `perm[s]` of `self`), by graded antisymmetry.
+    pub(super) fn permuted(&self, perm: [usize; 3]) -> FamilyValues {
+        match self {
+            FamilyValues::Functions(t) => FamilyValues::Functions(Box::new(t.permuted(perm))),
+            FamilyValues::Member(t) => FamilyValues::Member(Box::new(t.permuted(perm))),
+        }
+    }
 }
 
 /// Compute the tensor of `bundles` over the family and compare it with the member (module documentation).
