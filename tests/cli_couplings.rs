@@ -2,7 +2,7 @@
 //! ranks, the JSON contract keys, warnings for failing models, and bad input (exit code 2).
 
 mod common;
-use common::{assert_refused, json, sheafwright, temp_file};
+use common::{assert_refused, coupling_entries, json, sheafwright, temp_file};
 
 #[test]
 fn text_has_legend_ranks_and_normalisation() {
@@ -116,21 +116,27 @@ fn inline_bundles_singlets_and_timing() {
     assert!(out.contains("switched on by singlets"), "{out}");
 }
 
-/// A rank-5 sum on the codimension-2 configuration P1^5[(1,1,1,1,2);(1,1,1,1,0)] (invented; found by a random
-/// search over c1 = 0 sums, it fails the consistency checks and is computed with a warning): the singlet couplings
-/// `1 5 5bar` have exact non-zero values at type sum = K = 2, next to entries forbidden by charge and computed zeros.
-#[test]
-fn rank_five_codimension_two_sum_has_non_zero_allowed_entries() {
-    let (code, out, err) = sheafwright(&[
+/// `couplings --json` of a sum on P1^5[(1,1,1,1,2);(1,1,1,1,0)] (the generic member of the default seed).
+fn codimension_two_couplings(bundles: &str) -> (i32, String, String) {
+    sheafwright(&[
         "couplings",
         "--ambient",
         "1,1,1,1,1",
         "--equations",
         "1,1,1,1,2;1,1,1,1,0",
         "--bundles",
-        "0,-1,1,0,1;0,1,0,0,-1;-1,0,1,1,0;0,1,-1,0,1;1,-1,-1,-1,-1",
+        bundles,
         "--json",
-    ]);
+    ])
+}
+
+/// A rank-5 sum on the codimension-2 configuration P1^5[(1,1,1,1,2);(1,1,1,1,0)] (invented; found by a random
+/// search over c1 = 0 sums, it fails the consistency checks and is computed with a warning): the singlet couplings
+/// `1 5 5bar` have exact non-zero values at type sum = K = 2, next to entries forbidden by charge and computed zeros.
+#[test]
+fn rank_five_codimension_two_sum_has_non_zero_allowed_entries() {
+    let (code, out, err) =
+        codimension_two_couplings("0,-1,1,0,1;0,1,0,0,-1;-1,0,1,1,0;0,1,-1,0,1;1,-1,-1,-1,-1");
     assert_eq!(code, 0, "{err}");
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     assert_eq!(v["codimension"], 2);
@@ -161,11 +167,8 @@ fn lift_above_the_term_limit_is_refused_naming_its_size() {
     let full = json(&["couplings", model, "--json"]);
     let limited = json(&["couplings", model, "--json", "--max-terms", "100"]);
     let statuses = |v: &serde_json::Value| -> Vec<(String, String)> {
-        v["classes"]
-            .as_array()
-            .unwrap()
-            .iter()
-            .flat_map(|c| c["entries"].as_array().unwrap())
+        coupling_entries(v)
+            .into_iter()
             .map(|e| {
                 (
                     e["fields"].to_string(),
@@ -225,16 +228,7 @@ fn codimension_two_sums_have_non_zero_cubic_matter_couplings() {
             (0, 2),
         ),
     ] {
-        let (code, out, err) = sheafwright(&[
-            "couplings",
-            "--ambient",
-            "1,1,1,1,1",
-            "--equations",
-            "1,1,1,1,2;1,1,1,1,0",
-            "--bundles",
-            bundles,
-            "--json",
-        ]);
+        let (code, out, err) = codimension_two_couplings(bundles);
         assert_eq!(code, 0, "{err}");
         assert!(err.contains("fails some consistency check"), "{err}");
         let v: serde_json::Value = serde_json::from_str(&out).unwrap();
@@ -310,11 +304,8 @@ fn parameter_model_gets_rational_function_values() {
         assert!(t["special_values"].is_array());
     }
     assert!(f["special_values"].is_array());
-    let valued: Vec<&serde_json::Value> = v["classes"]
-        .as_array()
-        .unwrap()
-        .iter()
-        .flat_map(|c| c["entries"].as_array().unwrap())
+    let valued: Vec<&serde_json::Value> = coupling_entries(&v)
+        .into_iter()
         .filter(|e| e["status"] == "value")
         .collect();
     assert!(!valued.is_empty());

@@ -7,7 +7,7 @@
 
 mod common;
 
-use common::{assert_refused, sheafwright};
+use common::{assert_refused, coupling_entries, sheafwright};
 use num_rational::BigRational;
 use num_traits::{One, Zero};
 use serde_json::Value;
@@ -38,6 +38,17 @@ fn rat(v: &Value) -> BigRational {
     v.as_str().unwrap().parse().unwrap()
 }
 
+/// The terms of an exported polynomial (`exponents` beside exact `coefficients`) by exponent.
+fn polynomial_terms(p: &Value) -> HashMap<Vec<u32>, BigRational> {
+    p["exponents"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .zip(p["coefficients"].as_array().unwrap())
+        .map(|(x, c)| (serde_json::from_value(x.clone()).unwrap(), rat(c)))
+        .collect()
+}
+
 #[test]
 fn exact_coefficients_round_trip() {
     let model = "catalogs-demo/tetraquadric-a.toml";
@@ -51,13 +62,7 @@ fn exact_coefficients_round_trip() {
     let eqs = v["polynomials"]["equations"].as_array().unwrap();
     assert_eq!(eqs.len(), engine.polynomials().len());
     for (e, p) in eqs.iter().zip(engine.polynomials()) {
-        let from_file: HashMap<Vec<u32>, BigRational> = e["exponents"]
-            .as_array()
-            .unwrap()
-            .iter()
-            .zip(e["coefficients"].as_array().unwrap())
-            .map(|(x, c)| (serde_json::from_value(x.clone()).unwrap(), rat(c)))
-            .collect();
+        let from_file = polynomial_terms(e);
         let from_engine: HashMap<Vec<u32>, BigRational> =
             p.terms().map(|(x, c)| (x.clone(), c.clone())).collect();
         assert_eq!(from_file, from_engine);
@@ -214,13 +219,7 @@ fn family_models_export_polynomials_and_couplings_as_functions_of_the_parameter(
     let mut parametric_terms = 0;
     for (m, f) in members.iter().zip(family) {
         assert_eq!(m["multidegree"], f["multidegree"]);
-        let want: HashMap<Vec<u32>, BigRational> = m["exponents"]
-            .as_array()
-            .unwrap()
-            .iter()
-            .zip(m["coefficients"].as_array().unwrap())
-            .map(|(x, c)| (serde_json::from_value(x.clone()).unwrap(), rat(c)))
-            .collect();
+        let want = polynomial_terms(m);
         let mut got = HashMap::new();
         for (x, cs) in f["exponents"]
             .as_array()
@@ -250,11 +249,8 @@ fn family_models_export_polynomials_and_couplings_as_functions_of_the_parameter(
         assert!(tensor["total_degree_bound"].as_u64().is_some());
         assert_eq!(tensor["member_check"], "agrees");
     }
-    let values: Vec<&Value> = couplings["classes"]
-        .as_array()
-        .unwrap()
-        .iter()
-        .flat_map(|c| c["entries"].as_array().unwrap())
+    let values: Vec<&Value> = coupling_entries(couplings)
+        .into_iter()
         .filter(|e| e["status"] == "value")
         .collect();
     assert!(!values.is_empty());

@@ -24,6 +24,16 @@ pub fn json(args: &[&str]) -> serde_json::Value {
     serde_json::from_str(&out).expect("one JSON object")
 }
 
+/// Every texture entry of a couplings JSON object (`couplings --json`, or an export's `couplings`), in order.
+pub fn coupling_entries(v: &serde_json::Value) -> Vec<&serde_json::Value> {
+    v["classes"]
+        .as_array()
+        .expect("classes")
+        .iter()
+        .flat_map(|c| c["entries"].as_array().expect("entries"))
+        .collect()
+}
+
 /// Assert a clean refusal: exit 2, one `error:` line on stderr containing `needle`, no panic.
 pub fn assert_refused(args: &[&str], needle: &str) {
     let (code, out, err) = sheafwright(args);
