@@ -575,6 +575,66 @@ print("numpy ok", ex.shape, d["bott_exponents"].shape, lt.shape, ft.shape)
     println!("{text}");
 }
 
+/// The npz of a model with a symbolic parameter carries the family's polynomials; substituting the member value
+/// (exactly, with Fractions) into `family_polynomial_J_*` gives `polynomial_J_*`.
+#[test]
+fn npz_family_polynomials_specialise_to_the_member() {
+    if python3().is_none() {
+        return;
+    }
+    let path = out_dir("npz-family").join("out.npz");
+    let (code, _, err) = sheafwright(&[
+        "export",
+        "catalogs-demo/tetraquadric-psi.toml",
+        "-o",
+        path.to_str().unwrap(),
+        "--format",
+        "npz",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let script = r#"
+import sys
+from fractions import Fraction
+try:
+    import numpy as np
+except ImportError:
+    print("NOTICE: numpy not installed; family npz check skipped")
+    sys.exit(0)
+d = np.load(sys.argv[1])
+name, value = [str(x) for x in d["family_parameter"]]
+assert name == "psi", name
+t = Fraction(value)
+j = 1
+while f"polynomial_{j}_exponents" in d:
+    member = {tuple(int(x) for x in e): Fraction(str(c)) for e, c in
+              zip(d[f"polynomial_{j}_exponents"], d[f"polynomial_{j}_coefficients_exact"])}
+    ex = d[f"family_polynomial_{j}_exponents"]
+    got = {}
+    varying = 0
+    for (term, power), c in zip(d[f"family_polynomial_{j}_terms"], d[f"family_polynomial_{j}_coefficients_exact"]):
+        key = tuple(int(x) for x in ex[int(term)])
+        got[key] = got.get(key, Fraction(0)) + Fraction(str(c)) * t ** int(power)
+        varying += int(power) > 0
+    got = {k: v for k, v in got.items() if v != 0}
+    assert got == member, (j, len(got), len(member))
+    assert varying > 0
+    j += 1
+assert j > 1
+print("family npz ok", j - 1)
+"#;
+    let out = Command::new("python3")
+        .args(["-c", script, path.to_str().unwrap()])
+        .output()
+        .unwrap();
+    let text =
+        String::from_utf8_lossy(&out.stdout).into_owned() + &String::from_utf8_lossy(&out.stderr);
+    assert!(out.status.success(), "{text}");
+    assert!(
+        text.contains("family npz ok") || text.contains("NOTICE"),
+        "{text}"
+    );
+}
+
 /// A Čech–Koszul basis element: (Koszul set, faces, monomial).
 type TermKey = (Vec<usize>, Vec<Vec<usize>>, Vec<Vec<i64>>);
 /// A polynomial as (monomial per factor, coefficient) pairs.

@@ -568,6 +568,39 @@ impl Export {
                 p.coefficients.clone(),
             );
         }
+        if let Some(f) = &self.polynomials.family {
+            out.push((
+                "family_parameter".into(),
+                NpyArray::Str(vec![f.parameter.clone(), f.value.clone()]),
+            ));
+            for (j, p) in f.equations.iter().enumerate() {
+                let rows: Vec<Vec<i64>> = p
+                    .exponents
+                    .iter()
+                    .map(|e| e.iter().map(|&x| x as i64).collect())
+                    .collect();
+                out.push((
+                    format!("family_polynomial_{}_exponents", j + 1),
+                    i64_table(&rows, nvars),
+                ));
+                let (mut terms, mut exact) = (Vec::new(), Vec::new());
+                for (t, cs) in p.coefficients.iter().enumerate() {
+                    for (power, c) in cs.iter().enumerate().filter(|(_, c)| c.as_str() != "0") {
+                        terms.push(vec![t as i64, power as i64]);
+                        exact.push(c.clone());
+                    }
+                }
+                out.push((
+                    format!("family_polynomial_{}_terms", j + 1),
+                    i64_table(&terms, 2),
+                ));
+                push_coefficients(
+                    &mut out,
+                    &format!("family_polynomial_{}_coefficients", j + 1),
+                    exact,
+                );
+            }
+        }
         let labels = self.multiplets.iter().map(|x| x.label.clone()).collect();
         out.push(("multiplet_labels".into(), NpyArray::Str(labels)));
         let lbs: Vec<Vec<i64>> = self
