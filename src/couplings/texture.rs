@@ -471,8 +471,9 @@ fn couplings_with(
                     coupling_engine: &coupling_engine,
                     family: family.zip(members.as_ref()),
                 };
-                let (cls, n) = ctx.textures(&mut types_cache, summary.as_mut())?;
+                let (cls, n, skipped) = ctx.textures(&mut types_cache, summary.as_mut())?;
                 tensors = n;
+                all_forbidden_textures += skipped;
                 classes.extend(cls);
             }
             _ => {}

@@ -127,13 +127,13 @@ impl Cubic<'_> {
         &self,
         types_cache: &mut std::collections::HashMap<Vec<i64>, Vec<usize>>,
         mut summary: Option<&mut FamilySummary>,
-    ) -> Result<(Vec<CouplingClass>, usize), TextureError> {
+    ) -> Result<(Vec<CouplingClass>, usize, usize), TextureError> {
         let op = self.op;
         let rows = side(self.spectrum, op.slots[0]);
         let cols = side(self.spectrum, op.slots[1]);
         let choices = side(self.spectrum, op.slots[2]);
         if rows.labels.is_empty() || cols.labels.is_empty() || choices.labels.is_empty() {
-            return Ok((vec![], 0));
+            return Ok((vec![], 0, 0));
         }
         check_side(op, "row", rows.labels.len())?;
         check_side(op, "column", cols.labels.len())?;
@@ -142,8 +142,15 @@ impl Cubic<'_> {
         // Tensors computed by the engine (not derived by a permutation).
         let mut computed_tensors = 0usize;
         let mut out = Vec::new();
+        // Textures with every entry forbidden by charge are not built when no singlet insertions are asked
+        // for (the caller drops them anyway); they are counted.
+        let mut all_forbidden = 0usize;
         for (h, (hm, hi)) in choices.classes.iter().enumerate() {
-            let mut entries = Vec::new();
+            if self.options.singlets == 0 && !any_allowed(&rows, &cols, hm) {
+                all_forbidden += 1;
+                continue;
+            }
+            let mut entries = Vec::with_capacity(rows.labels.len() * cols.labels.len());
             let mut warnings = Vec::new();
             for (r, (rm, ri)) in rows.classes.iter().enumerate() {
                 for (c, (cm, ci)) in cols.classes.iter().enumerate() {
@@ -283,7 +290,7 @@ impl Cubic<'_> {
                 warnings,
             ));
         }
-        Ok((out, computed_tensors))
+        Ok((out, computed_tensors, all_forbidden))
     }
 }
 
@@ -291,6 +298,25 @@ fn push_unique(v: &mut Vec<String>, s: String) {
     if !v.contains(&s) {
         v.push(s);
     }
+}
+
+/// Whether some (row, column) pair with the choice `hm` is allowed by charge; a charge error counts as allowed
+/// (the texture is then built and reports it).
+fn any_allowed(rows: &Side, cols: &Side, hm: &Multiplet) -> bool {
+    fn distinct<'a>(side: &Side<'a>) -> Vec<&'a [i64]> {
+        let mut seen: Vec<&'a [i64]> = Vec::new();
+        for (m, _) in &side.classes {
+            if !seen.contains(&m.charge.as_slice()) {
+                seen.push(&m.charge);
+            }
+        }
+        seen
+    }
+    let cols = distinct(cols);
+    distinct(rows).iter().any(|r| {
+        cols.iter()
+            .any(|c| charge_is_singlet(&[r, c, hm.charge.as_slice()]).unwrap_or(true))
+    })
 }
 
 /// An already computed tensor whose slots, permuted by `perm` (slot `s` of `key` is slot `perm[s]` of the

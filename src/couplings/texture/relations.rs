@@ -149,7 +149,7 @@ fn known_row<F: RelationField>(
 }
 
 /// Exact rank over the field when every entry is known.
-fn known_rank<F: RelationField>(
+pub(super) fn known_rank<F: RelationField>(
     field: &F,
     nr: usize,
     nc: usize,
@@ -162,6 +162,10 @@ fn known_rank<F: RelationField>(
 /// Exact rank of a texture when every entry is known: over Q, or over `Q(parameter)` when some value is a
 /// rational function ([`super::function_field`]).
 pub(super) fn texture_rank(nr: usize, nc: usize, entries: &[Entry]) -> Option<usize> {
+    if entries.iter().all(|e| e.value.is_none()) {
+        // every known entry is zero: rank 0 when all are known
+        return entries.iter().all(|e| e.status.is_known()).then_some(0);
+    }
     match parameter_of(entries) {
         Some(p) => known_rank(&FunctionField::new(p), nr, nc, entries),
         None => known_rank(&Rationals, nr, nc, entries),
@@ -170,10 +174,40 @@ pub(super) fn texture_rank(nr: usize, nc: usize, entries: &[Entry]) -> Option<us
 
 /// Exact relations of a texture (over `Q(parameter)` when some value is a rational function).
 pub(super) fn relations(rows: &[String], columns: &[String], entries: &[Entry]) -> Vec<Relation> {
+    if entries.iter().all(|e| e.value.is_none()) {
+        return zero_texture_relations(rows, columns, entries);
+    }
     match parameter_of(entries) {
         Some(p) => search(&FunctionField::new(p), rows, columns, entries),
         None => search(&Rationals, rows, columns, entries),
     }
+}
+
+/// [`search`] for a texture without a non-zero value (every known entry is zero), without materialising
+/// values: only the rows and columns whose entries are all known, each as a `"zero"` relation, in the same
+/// order and with the same limit.
+pub(super) fn zero_texture_relations(
+    rows: &[String],
+    columns: &[String],
+    entries: &[Entry],
+) -> Vec<Relation> {
+    let nc = columns.len();
+    let known = |r: usize, c: usize| entries[r * nc + c].status.is_known();
+    let zero = |between: &'static str, label: &String| Relation {
+        between,
+        kind: "zero",
+        first: label.clone(),
+        second: String::new(),
+        factor: "0".into(),
+        factor_depends_on_parameter: false,
+    };
+    let zero_rows = (0..rows.len())
+        .filter(|&r| (0..nc).all(|c| known(r, c)))
+        .map(|r| zero("rows", &rows[r]));
+    let zero_columns = (0..nc)
+        .filter(|&c| (0..rows.len()).all(|r| known(r, c)))
+        .map(|c| zero("columns", &columns[c]));
+    zero_rows.chain(zero_columns).take(MAX_RELATIONS).collect()
 }
 
 /// The relations of a texture over `field`, in this order: entries (each non-zero value linked to the first

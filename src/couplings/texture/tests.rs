@@ -377,3 +377,40 @@ fn too_many_singlets_refused() {
     .unwrap_err();
     assert!(err.to_string().contains("--singlets 9"));
 }
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(200))]
+
+    /// The fast path for textures without a non-zero value agrees with the general relation search and rank
+    /// (its slow twin) on random patterns of known-zero and unknown entries.
+    #[test]
+    fn zero_texture_fast_path_matches_the_general_search(
+        (nr, nc, codes) in (1usize..6, 1usize..6).prop_flat_map(|(r, c)| {
+            (Just(r), Just(c), proptest::collection::vec(0u8..5, r * c))
+        })
+    ) {
+        use super::relations::{Rationals, known_rank, search, zero_texture_relations};
+        let statuses = [
+            EntryStatus::ForbiddenByCharge,
+            EntryStatus::VanishesByType,
+            EntryStatus::ZeroComputed,
+            EntryStatus::NotComputed,
+            EntryStatus::AllowedByCharge,
+        ];
+        let entries: Vec<Entry> = codes
+            .iter()
+            .enumerate()
+            .map(|(i, &k)| Entry { status: statuses[k as usize], ..entry(i / nc, i % nc, None) })
+            .collect();
+        let rows: Vec<String> = (0..nr).map(|r| format!("r{r}")).collect();
+        let columns: Vec<String> = (0..nc).map(|c| format!("c{c}")).collect();
+        prop_assert_eq!(
+            zero_texture_relations(&rows, &columns, &entries),
+            search(&Rationals, &rows, &columns, &entries)
+        );
+        prop_assert_eq!(
+            super::relations::texture_rank(nr, nc, &entries),
+            known_rank(&Rationals, nr, nc, &entries)
+        );
+    }
+}
