@@ -34,6 +34,33 @@ fn export_json(model: &str, extra: &[&str], tag: &str) -> (PathBuf, Value) {
     (path, v)
 }
 
+/// Run a Python check `script` on `file`; it must exit 0. Returns stdout and stderr.
+fn run_python_script(script: &str, file: &Path) -> String {
+    let out = Command::new("python3")
+        .args(["-c", script, file.to_str().unwrap()])
+        .output()
+        .unwrap();
+    let text =
+        String::from_utf8_lossy(&out.stdout).into_owned() + &String::from_utf8_lossy(&out.stderr);
+    assert!(out.status.success(), "{text}");
+    text
+}
+
+/// Export `model` as npz into a fresh directory named by `tag`; returns the file's path.
+fn export_npz(model: &str, tag: &str) -> PathBuf {
+    let path = out_dir(tag).join("out.npz");
+    let (code, _, err) = sheafwright(&[
+        "export",
+        model,
+        "-o",
+        path.to_str().unwrap(),
+        "--format",
+        "npz",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    path
+}
+
 fn rat(v: &Value) -> BigRational {
     v.as_str().unwrap().parse().unwrap()
 }
@@ -523,17 +550,7 @@ fn npz_loads_with_numpy() {
     if python3().is_none() {
         return;
     }
-    let dir = out_dir("npz");
-    let path = dir.join("out.npz");
-    let (code, _, err) = sheafwright(&[
-        "export",
-        "catalogs-demo/split-c.toml",
-        "-o",
-        path.to_str().unwrap(),
-        "--format",
-        "npz",
-    ]);
-    assert_eq!(code, 0, "{err}");
+    let path = export_npz("catalogs-demo/split-c.toml", "npz");
     // the archive itself is checked with the standard library (zipfile), numpy when it is installed
     let script = r#"
 import sys, zipfile, json
@@ -565,13 +582,7 @@ ft = d["face_form_terms"]
 assert ft.shape[0] == d["face_form_x"].shape[0] == d["face_form_coefficients_exact"].shape[0] > 0
 print("numpy ok", ex.shape, d["bott_exponents"].shape, lt.shape, ft.shape)
 "#;
-    let out = Command::new("python3")
-        .args(["-c", script, path.to_str().unwrap()])
-        .output()
-        .unwrap();
-    let text =
-        String::from_utf8_lossy(&out.stdout).into_owned() + &String::from_utf8_lossy(&out.stderr);
-    assert!(out.status.success(), "{text}");
+    let text = run_python_script(script, &path);
     println!("{text}");
 }
 
@@ -582,16 +593,7 @@ fn npz_family_polynomials_specialise_to_the_member() {
     if python3().is_none() {
         return;
     }
-    let path = out_dir("npz-family").join("out.npz");
-    let (code, _, err) = sheafwright(&[
-        "export",
-        "catalogs-demo/tetraquadric-psi.toml",
-        "-o",
-        path.to_str().unwrap(),
-        "--format",
-        "npz",
-    ]);
-    assert_eq!(code, 0, "{err}");
+    let path = export_npz("catalogs-demo/tetraquadric-psi.toml", "npz-family");
     let script = r#"
 import sys
 from fractions import Fraction
@@ -622,13 +624,7 @@ while f"polynomial_{j}_exponents" in d:
 assert j > 1
 print("family npz ok", j - 1)
 "#;
-    let out = Command::new("python3")
-        .args(["-c", script, path.to_str().unwrap()])
-        .output()
-        .unwrap();
-    let text =
-        String::from_utf8_lossy(&out.stdout).into_owned() + &String::from_utf8_lossy(&out.stderr);
-    assert!(out.status.success(), "{text}");
+    let text = run_python_script(script, &path);
     assert!(
         text.contains("family npz ok") || text.contains("NOTICE"),
         "{text}"

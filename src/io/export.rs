@@ -500,6 +500,15 @@ fn push_coefficients(out: &mut Vec<(String, NpyArray)>, name: &str, exact: Vec<S
     out.push((format!("{name}_exact"), NpyArray::Str(exact)));
 }
 
+/// One row of `width` exponents per polynomial term.
+fn exponent_table(exponents: &[Vec<u32>], width: usize) -> NpyArray {
+    let rows: Vec<Vec<i64>> = exponents
+        .iter()
+        .map(|e| e.iter().map(|&x| x as i64).collect())
+        .collect();
+    i64_table(&rows, width)
+}
+
 fn i64_table(rows: &[Vec<i64>], width: usize) -> NpyArray {
     NpyArray::I64 {
         shape: vec![rows.len(), width],
@@ -553,14 +562,9 @@ impl Export {
             ),
         ];
         for (j, p) in self.polynomials.equations.iter().enumerate() {
-            let rows: Vec<Vec<i64>> = p
-                .exponents
-                .iter()
-                .map(|e| e.iter().map(|&x| x as i64).collect())
-                .collect();
             out.push((
                 format!("polynomial_{}_exponents", j + 1),
-                i64_table(&rows, nvars),
+                exponent_table(&p.exponents, nvars),
             ));
             push_coefficients(
                 &mut out,
@@ -574,14 +578,9 @@ impl Export {
                 NpyArray::Str(vec![f.parameter.clone(), f.value.clone()]),
             ));
             for (j, p) in f.equations.iter().enumerate() {
-                let rows: Vec<Vec<i64>> = p
-                    .exponents
-                    .iter()
-                    .map(|e| e.iter().map(|&x| x as i64).collect())
-                    .collect();
                 out.push((
                     format!("family_polynomial_{}_exponents", j + 1),
-                    i64_table(&rows, nvars),
+                    exponent_table(&p.exponents, nvars),
                 ));
                 let (mut terms, mut exact) = (Vec::new(), Vec::new());
                 for (t, cs) in p.coefficients.iter().enumerate() {
